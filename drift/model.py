@@ -1,0 +1,444 @@
+"""The reference model: fitted once on a pool of seasons, then used to place any season.
+
+Pipeline (all constants learned on the pool only):
+
+    features --(shrink small samples toward the pool mean)--> processed
+             --(standardise, weight by reliability)--> z
+             --(principal components, fixed signs)--> scores
+             --(K-means)--> roles
+"""
+
+from __future__ import annotations
+
+from .errors import ModelFileError, ModelQualityWarning, NotFittedError
+
+__all__ = ["RoleModel", "SCHEMA_VERSION"]
+
+SCHEMA_VERSION = 1
+_FITTED = "centroids_"
+
+
+class RoleModel:
+    """Role groups fitted on a pooled reference set of seasons.
+
+    Parameters
+    ----------
+    components : {"parallel", "elbow", "variance"}, int or float
+        Rule for the number of principal components, a fixed count, or a
+        fraction of variance to reach.
+    variance_threshold : float
+        Used by the ``"variance"`` rule.
+    roles : "auto" or int
+        Number of roles, or ``"auto"`` to choose it (see :mod:`drift.selection`).
+    max_roles : int
+        Largest k tried by ``"auto"``.
+    noise_policy : {"shrink", "weight", "shrink+weight", "none"}
+        How small samples are kept from dominating (see README, "Noise policy").
+    seed : int
+    n_init : int
+        K-means restarts.
+    n_bootstrap : int
+        Resamples for role stability.
+    role_names : dict, optional
+        Role id -> name given by the user.
+
+    Attributes
+    ----------
+    features_ : tuple of str, length p
+    noise_ : DataFrame, one row per feature (see :func:`drift.noise.fit_noise`)
+    weights_ : ndarray of shape (p,)
+    scaler_mean_, scaler_scale_ : ndarray of shape (p,)
+    components_ : ndarray of shape (q, p)
+    pca_mean_ : ndarray of shape (p,)
+    explained_variance_ratio_ : ndarray of shape (q,)
+    centroids_ : ndarray of shape (k, q)
+        Role centres in component space.
+    centroids_features_ : ndarray of shape (k, p)
+        Role centres in feature units.
+    role_ids_, role_names_, role_descriptions_ : list of str, length k
+    role_stability_ : ndarray of shape (k,)
+        Mean bootstrap Jaccard overlap of each role.
+    within_var_ : float
+        Pooled within-role variance per component (for membership probabilities).
+    distance_q99_ : float
+        99th percentile of the pool's distances to their nearest role.
+    noise_scale_ : float
+        Calibration of the move noise model on the pool's returning players (1 = as modelled).
+    component_diagnostics_, role_diagnostics_ : DataFrame
+    reference_seasons_ : list of str
+    n_pool_ : int
+    fingerprint_ : str
+    """
+
+    def __init__(self, *, components="parallel", variance_threshold=0.8, roles="auto",
+                 max_roles=10, noise_policy="shrink", seed=0, n_init=10, n_bootstrap=20,
+                 role_names=None):
+        self.components = components
+        self.variance_threshold = variance_threshold
+        self.roles = roles
+        self.max_roles = max_roles
+        self.noise_policy = noise_policy
+        self.seed = seed
+        self.n_init = n_init
+        self.n_bootstrap = n_bootstrap
+        self.role_names = role_names
+
+    # ------------------------------------------------------------------ fitting
+    def fit(self, pool, *, features=None):
+        """Fit on the pool's qualifying season rows.
+
+        Parameters
+        ----------
+        pool : DataFrame
+            One row per player-season: ``player_id``, ``season``, ``minutes``
+            (and ``possessions`` if known) and the features; missing play-type
+            shares already set to 0 (:func:`drift.features.fill_unused_shares`).
+        features : sequence of str, optional
+            Feature columns in order; default every column the intake found.
+
+        Returns
+        -------
+        self
+        """
+        import warnings
+
+        import numpy as np
+        from sklearn.cluster import KMeans
+
+        from .describe import describe_role
+        from .features import exposure_matrix, feature_spec
+        from .noise import fit_noise
+        from .selection import STABLE_JACCARD, choose_components, choose_roles
+
+        names = tuple(features) if features is not None else tuple(pool.attrs.get("features", ()))
+        if not names:
+            raise ValueError("fit needs the feature names: pass features=[...]")
+        k_min = self.roles if isinstance(self.roles, int) else 2
+        if len(pool) < max(10, 3 * k_min):
+            raise ValueError(f"the pool has {len(pool)} player-seasons; at least {max(10, 3 * k_min)} "
+                             "are needed (add seasons with --reference or lower the filters)")
+        spec = feature_spec(names)
+        exposure = exposure_matrix(pool, spec)
+        self.features_ = names
+        self.families_ = spec.families
+        self.noise_ = fit_noise(pool, spec, exposure)
+        shrink = self.noise_policy in ("shrink", "shrink+weight")
+        processed, _ = self._process(pool[list(names)].to_numpy(float), exposure, shrink=shrink)
+        self.scaler_mean_ = processed.mean(axis=0)
+        scale = processed.std(axis=0)
+        self.scaler_scale_ = np.where(scale > 0, scale, 1.0)
+        if self.noise_policy in ("weight", "shrink+weight"):
+            r = self.noise_["year_to_year_r"].fillna(self.noise_["signal_share"]).to_numpy(float)
+            self.weights_ = np.sqrt(np.clip(r, 0.05, 1.0))
+        else:
+            self.weights_ = np.ones(len(names))
+        z = (processed - self.scaler_mean_) / self.scaler_scale_ * self.weights_
+        q, self.component_diagnostics_ = choose_components(
+            z, self.components, variance_threshold=self.variance_threshold, seed=self.seed)
+        self.pca_mean_ = z.mean(axis=0)
+        _, s, vt = np.linalg.svd(z - self.pca_mean_, full_matrices=False)
+        # sign convention: each component's largest-magnitude loading is positive
+        signs = np.sign(vt[np.arange(len(vt)), np.argmax(np.abs(vt), axis=1)])
+        vt = vt * signs[:, None]
+        self.components_ = vt[:q]
+        ev = s ** 2 / len(z)
+        self.explained_variance_ratio_ = (ev / ev.sum())[:q]
+        scores = (z - self.pca_mean_) @ self.components_.T
+
+        k, self.role_diagnostics_, stability = choose_roles(
+            scores, self.roles, max_roles=self.max_roles, seed=self.seed,
+            n_init=self.n_init, n_boot=self.n_bootstrap)
+        km = KMeans(n_clusters=k, n_init=self.n_init, random_state=self.seed).fit(scores)
+        order = np.argsort(-km.cluster_centers_[:, 0], kind="stable")
+        self.centroids_ = km.cluster_centers_[order]
+        self.role_stability_ = stability[k][order]
+        labels = np.argsort(order)[km.labels_]
+        self.within_var_ = float(km.inertia_ / (len(scores) * q))
+        self.role_ids_ = [f"R{i + 1}" for i in range(k)]
+        self.centroids_features_ = np.vstack(
+            [processed[labels == r].mean(axis=0) for r in range(k)])
+        pool_sd = np.where(processed.std(axis=0) > 0, processed.std(axis=0), 1.0)
+        self.role_descriptions_ = [
+            describe_role(dict(zip(names, (c - processed.mean(axis=0)) / pool_sd)))
+            for c in self.centroids_features_]
+        given = self.role_names or {}
+        self.role_names_ = [given.get(rid, desc.split(",")[0]) for rid, desc in
+                            zip(self.role_ids_, self.role_descriptions_)]
+        self.role_sizes_ = np.bincount(labels, minlength=k).tolist()
+        d = np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
+        self.distance_q99_ = float(np.quantile(d.min(axis=1), 0.99))
+        self.reference_seasons_ = sorted(map(str, pool["season"].unique()))
+        self.n_pool_ = int(len(pool))
+        self.fingerprint_ = _fingerprint(pool, names)
+        self.noise_scale_ = 1.0
+        self.noise_scale_ = self._calibrate_noise(pool, scores, exposure)
+        weak = [rid for rid, s in zip(self.role_ids_, self.role_stability_) if s < STABLE_JACCARD]
+        if weak:
+            warnings.warn(f"role(s) {weak} do not reproduce on resamples "
+                          f"(stability < {STABLE_JACCARD}); read them with care",
+                          ModelQualityWarning, stacklevel=2)
+        return self
+
+    def _process(self, values, exposure, *, shrink):
+        """Processed features (shrunk or mean-filled) and their noise variance, both (n, p)."""
+        import numpy as np
+
+        mean = self.noise_["mean"].to_numpy(float)
+        sigma2 = self.noise_["sigma2"].to_numpy(float)
+        tau2 = self.noise_["tau2"].to_numpy(float)
+        has = np.isfinite(values) & (exposure > 0)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            v = np.where(has, sigma2 / np.where(has, exposure, 1.0), 0.0)
+            factor = np.where(has, tau2 / (tau2 + v), 0.0) if shrink else has.astype(float)
+        factor = np.nan_to_num(factor, nan=1.0)
+        y = np.where(has, values, mean)
+        processed = mean + factor * (y - mean)
+        noise_var = factor ** 2 * v
+        return processed, noise_var
+
+    def _calibrate_noise(self, pool, scores, exposure):
+        import numpy as np
+        from scipy.stats import chi2
+
+        from .noise import consecutive_pairs
+
+        i1, i2 = consecutive_pairs(pool)
+        if len(i1) < 30:
+            return 1.0
+        _, nv = self._process(pool[list(self.features_)].to_numpy(float), exposure,
+                              shrink=self.noise_policy in ("shrink", "shrink+weight"))
+        d2 = self.move_statistic(scores[i2] - scores[i1], nv[i1], nv[i2])
+        q = scores.shape[1]
+        c = float(np.median(d2) / chi2.ppf(0.5, q))
+        for _ in range(5):  # drop clear movers, match the median of the truncated null
+            keep = d2 <= c * chi2.ppf(0.999, q)
+            c = float(np.median(d2[keep]) / chi2.ppf(0.5 * 0.999, q))
+        return c
+
+    # ------------------------------------------------------------------ using
+    def _check_fitted(self):
+        if not hasattr(self, _FITTED):
+            raise NotFittedError(
+                f"This {type(self).__name__} instance is not fitted yet. Call 'fit' with a pool of "
+                "seasons, or load a saved model with RoleModel.load(path).")
+
+    def _matrix(self, table):
+        import numpy as np
+
+        from .features import exposure_matrix, feature_spec
+
+        missing = [f for f in self.features_ if f not in table.columns]
+        if missing:
+            raise ModelFileError(
+                f"the data lacks {len(missing)} feature(s) the model was fitted on: {missing}; "
+                "give the same feature columns (or refit)")
+        exposure = exposure_matrix(table, feature_spec(self.features_))
+        return table[list(self.features_)].to_numpy(float), exposure
+
+    def processed(self, table):
+        """Processed feature values and their noise variance, each of shape (n, p)."""
+        self._check_fitted()
+        values, exposure = self._matrix(table)
+        return self._process(values, exposure, shrink=self.noise_policy in ("shrink", "shrink+weight"))
+
+    def scores_from_processed(self, processed):
+        """Component scores, shape (n, q), of processed feature values of shape (n, p)."""
+        z = (processed - self.scaler_mean_) / self.scaler_scale_ * self.weights_
+        return (z - self.pca_mean_) @ self.components_.T
+
+    def transform(self, table):
+        """Component scores of a season table, shape (n_rows, n_components)."""
+        processed, _ = self.processed(table)
+        return self.scores_from_processed(processed)
+
+    def distances(self, scores):
+        """Euclidean distances to every role, shape (n, k)."""
+        import numpy as np
+
+        self._check_fitted()
+        return np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
+
+    def predict(self, table):
+        """Nearest role id of every row, shape (n_rows,)."""
+        import numpy as np
+
+        return np.asarray(self.role_ids_)[self.distances(self.transform(table)).argmin(axis=1)]
+
+    def score_noise_cov(self, noise_var):
+        """Noise covariance in component space, shape (n, q, q), from feature noise of shape (n, p)."""
+        import numpy as np
+
+        load = self.components_ * (self.weights_ / self.scaler_scale_)  # (q, p)
+        return np.einsum("qp,np,rp->nqr", load, noise_var, load)
+
+    def move_cov(self, noise_var_from, noise_var_to):
+        """Null covariance of a move between two placements, shape (n, q, q).
+
+        Sampling noise of both seasons plus the typical true yearly change of a
+        returning player, times the pool calibration ``noise_scale_``.
+        """
+        import numpy as np
+
+        drift = np.broadcast_to(self.noise_["drift_var"].to_numpy(float), noise_var_from.shape)
+        return self.noise_scale_ * self.score_noise_cov(noise_var_from + noise_var_to + drift)
+
+    def move_statistic(self, delta, noise_var_from, noise_var_to):
+        """Squared Mahalanobis length of moves (n, q) under the null: chi-square with q d.o.f."""
+        import numpy as np
+
+        cov = self.move_cov(noise_var_from, noise_var_to)
+        cov = cov + np.eye(cov.shape[1])[None] * 1e-9
+        solved = np.linalg.solve(cov, delta[..., None])[..., 0]
+        return (delta * solved).sum(axis=1)
+
+    def place(self, table):
+        """Place season rows: see :func:`drift.place.place`."""
+        from .place import place
+
+        return place(self, table)
+
+    # ------------------------------------------------------------------ files
+    def to_dict(self) -> dict:
+        """Everything needed to place new data, as plain JSON types."""
+        import sklearn
+        import numpy as np
+        import scipy
+
+        from . import __version__
+
+        self._check_fitted()
+        arr = lambda a: np.asarray(a, float).tolist()  # noqa: E731
+        return {
+            "schema": "drift-role-model", "schema_version": SCHEMA_VERSION,
+            "drift_version": __version__,
+            "library_versions": {"numpy": np.__version__, "scikit-learn": sklearn.__version__,
+                                 "scipy": scipy.__version__},
+            "settings": {"components": self.components, "variance_threshold": self.variance_threshold,
+                         "roles": self.roles, "max_roles": self.max_roles,
+                         "noise_policy": self.noise_policy, "seed": self.seed,
+                         "n_init": self.n_init, "n_bootstrap": self.n_bootstrap,
+                         "role_names": dict(self.role_names or {})},
+            "features": list(self.features_), "families": list(self.families_),
+            "noise": {c: self.noise_[c].tolist() for c in self.noise_.columns},
+            "weights": arr(self.weights_), "scaler_mean": arr(self.scaler_mean_),
+            "scaler_scale": arr(self.scaler_scale_), "pca_mean": arr(self.pca_mean_),
+            "components": arr(self.components_),
+            "explained_variance_ratio": arr(self.explained_variance_ratio_),
+            "roles": [{"id": i, "name": n, "description": d, "stability": float(s), "size": int(z),
+                       "centroid_components": arr(c), "centroid_features": arr(cf)}
+                      for i, n, d, s, z, c, cf in zip(
+                          self.role_ids_, self.role_names_, self.role_descriptions_,
+                          self.role_stability_, self.role_sizes_, self.centroids_,
+                          self.centroids_features_)],
+            "within_var": self.within_var_, "distance_q99": self.distance_q99_,
+            "noise_scale": self.noise_scale_,
+            "component_diagnostics": _records(self.component_diagnostics_),
+            "role_diagnostics": _records(self.role_diagnostics_),
+            "reference_seasons": list(self.reference_seasons_), "n_pool": self.n_pool_,
+            "fingerprint": self.fingerprint_,
+        }
+
+    @classmethod
+    def from_dict(cls, data: dict, *, source="model") -> "RoleModel":
+        """Rebuild a fitted model from :meth:`to_dict` output, validating it."""
+        import numpy as np
+        import pandas as pd
+
+        if not isinstance(data, dict) or data.get("schema") != "drift-role-model":
+            raise ModelFileError(f"{source}: not a drift model file (no 'schema': 'drift-role-model')")
+        if data.get("schema_version") != SCHEMA_VERSION:
+            raise ModelFileError(
+                f"{source}: schema_version {data.get('schema_version')!r} is not supported "
+                f"(this drift reads {SCHEMA_VERSION}); refit with this version")
+        try:
+            s = data["settings"]
+            model = cls(components=s["components"], variance_threshold=s["variance_threshold"],
+                        roles=s["roles"], max_roles=s["max_roles"], noise_policy=s["noise_policy"],
+                        seed=s["seed"], n_init=s["n_init"], n_bootstrap=s["n_bootstrap"],
+                        role_names=s["role_names"])
+            p = len(data["features"])
+            model.features_ = tuple(data["features"])
+            model.families_ = tuple(data["families"])
+            model.noise_ = pd.DataFrame(data["noise"]).set_index("feature")
+            model.weights_ = np.asarray(data["weights"], float)
+            model.scaler_mean_ = np.asarray(data["scaler_mean"], float)
+            model.scaler_scale_ = np.asarray(data["scaler_scale"], float)
+            model.pca_mean_ = np.asarray(data["pca_mean"], float)
+            model.components_ = np.asarray(data["components"], float).reshape(-1, p)
+            model.explained_variance_ratio_ = np.asarray(data["explained_variance_ratio"], float)
+            roles = data["roles"]
+            model.role_ids_ = [r["id"] for r in roles]
+            model.role_names_ = [r["name"] for r in roles]
+            model.role_descriptions_ = [r["description"] for r in roles]
+            model.role_stability_ = np.asarray([r["stability"] for r in roles], float)
+            model.role_sizes_ = [int(r["size"]) for r in roles]
+            model.centroids_features_ = np.asarray([r["centroid_features"] for r in roles], float)
+            model.within_var_ = float(data["within_var"])
+            model.distance_q99_ = float(data["distance_q99"])
+            model.noise_scale_ = float(data["noise_scale"])
+            model.component_diagnostics_ = pd.DataFrame(data["component_diagnostics"])
+            model.role_diagnostics_ = pd.DataFrame(data["role_diagnostics"])
+            model.reference_seasons_ = list(data["reference_seasons"])
+            model.n_pool_ = int(data["n_pool"])
+            model.fingerprint_ = data["fingerprint"]
+            model.centroids_ = np.asarray([r["centroid_components"] for r in roles], float)
+        except (KeyError, TypeError, ValueError) as exc:
+            raise ModelFileError(f"{source}: model file is incomplete or malformed ({exc!r}); "
+                                 "refit and save it again") from None
+        shapes_ok = (len(model.noise_) == p and model.weights_.shape == (p,)
+                     and model.centroids_.shape[1:] == (model.components_.shape[0],)
+                     and list(model.noise_.index) == list(model.features_))
+        if not shapes_ok:
+            raise ModelFileError(f"{source}: model arrays do not agree in shape; refit and save again")
+        return model
+
+    def save(self, path):
+        """Write the model as JSON."""
+        import json
+        from pathlib import Path
+
+        Path(path).write_text(json.dumps(self.to_dict(), indent=1, allow_nan=True) + "\n",
+                              encoding="utf-8")
+
+    @classmethod
+    def load(cls, path) -> "RoleModel":
+        """Read a model written by :meth:`save`."""
+        import json
+        from pathlib import Path
+
+        path = Path(path)
+        try:
+            data = json.loads(path.read_text(encoding="utf-8"))
+        except FileNotFoundError:
+            raise ModelFileError(f"{path}: model file not found") from None
+        except (json.JSONDecodeError, UnicodeDecodeError) as exc:
+            raise ModelFileError(f"{path}: not valid JSON ({exc}); the file is broken, refit") from None
+        return cls.from_dict(data, source=str(path))
+
+    def check_features(self, columns):
+        """Refuse data whose feature columns differ from the model's, listing both sides."""
+        missing = [f for f in self.features_ if f not in columns]
+        if missing:
+            raise ModelFileError(
+                f"the data does not match the model: missing features {missing}; "
+                "give the same feature columns, or fit a new model")
+
+
+def _records(frame):
+    import numpy as np
+
+    return [{k: (v.item() if isinstance(v, np.generic) else v) for k, v in row.items()}
+            for row in frame.to_dict(orient="records")]
+
+
+def _fingerprint(pool, names) -> str:
+    import hashlib
+
+    import numpy as np
+
+    h = hashlib.sha256()
+    order = np.lexsort((pool["player_id"].astype(str).to_numpy(), pool["season"].astype(str).to_numpy()))
+    h.update("|".join(pool["player_id"].astype(str).to_numpy()[order]).encode())
+    h.update("|".join(names).encode())
+    h.update(np.ascontiguousarray(np.nan_to_num(pool[list(names)].to_numpy(float)[order])).tobytes())
+    return h.hexdigest()[:16]

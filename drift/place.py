@@ -1,0 +1,63 @@
+"""Placement: where each player-season sits relative to the reference roles."""
+
+from __future__ import annotations
+
+__all__ = ["place", "ID_COLUMNS"]
+
+ID_COLUMNS = ("player_id", "player", "season", "team", "games", "minutes")
+
+
+def place(model, table):
+    """Place season (or stint, or partial-season) rows with a fitted model.
+
+    Parameters
+    ----------
+    model : RoleModel
+    table : DataFrame
+        Rows with the model's feature columns and ``minutes``.
+
+    Returns
+    -------
+    DataFrame, one row per input row:
+        identity columns present in ``table``; ``role`` (id), ``role_name``,
+        ``role_prob`` (membership probability of that role), ``second_role``,
+        ``margin`` (distance to the second-nearest role minus to the nearest),
+        ``distance`` (to the nearest), ``out_of_reference`` (farther from every
+        role than 99% of the pool), ``dist_<id>`` and ``prob_<id>`` per role,
+        and the component scores ``pc1..pcq``.
+
+    Notes
+    -----
+    Membership probabilities treat roles as equal-weight spherical Gaussians
+    with the pool's within-role variance: p_r proportional to exp(-d_r^2 / (2 s^2)).
+    """
+    import numpy as np
+    import pandas as pd
+
+    scores = model.transform(table)
+    d = model.distances(scores)
+    logits = -d ** 2 / (2 * model.within_var_)
+    logits -= logits.max(axis=1, keepdims=True)
+    prob = np.exp(logits)
+    prob /= prob.sum(axis=1, keepdims=True)
+    order = np.argsort(d, axis=1, kind="stable")
+    rows = np.arange(len(d))
+    ids = np.asarray(model.role_ids_)
+    names = dict(zip(model.role_ids_, model.role_names_))
+    out = table[[c for c in ID_COLUMNS if c in table.columns]].reset_index(drop=True).copy()
+    nearest, second = order[:, 0], order[:, 1] if d.shape[1] > 1 else order[:, 0]
+    out["role"] = ids[nearest]
+    out["role_name"] = [names[r] for r in out["role"]]
+    out["role_prob"] = prob[rows, nearest]
+    out["second_role"] = ids[second]
+    out["distance"] = d[rows, nearest]
+    out["margin"] = d[rows, second] - d[rows, nearest]
+    out["out_of_reference"] = out["distance"] > model.distance_q99_
+    extra = {}
+    for j, rid in enumerate(ids):
+        extra[f"dist_{rid}"] = d[:, j]
+    for j, rid in enumerate(ids):
+        extra[f"prob_{rid}"] = prob[:, j]
+    for j in range(scores.shape[1]):
+        extra[f"pc{j + 1}"] = scores[:, j]
+    return pd.concat([out, pd.DataFrame(extra)], axis=1)

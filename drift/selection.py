@@ -1,0 +1,266 @@
+"""How many components and how many roles: the stated methods and their diagnostics.
+
+Components (on the standardised, weighted pool matrix):
+
+* ``variance`` -- the smallest count whose cumulative explained variance reaches a threshold;
+* ``elbow`` -- the count where the cumulative curve's slope falls to the slope of the
+  chord from its first to its last point, i.e. the point farthest above that chord
+  (the "knee" of Satopaa et al. 2011, "Finding a 'Kneedle' in a Haystack");
+* ``parallel`` -- Horn's (1965) parallel analysis: keep component i while its eigenvalue
+  exceeds the 95th percentile of the i-th eigenvalue of random normal data of the same
+  shape and column scales;
+* a fixed count.
+
+Roles (K-means on the pool's component scores), for k in 2..max_roles:
+
+* silhouette (higher is better), Calinski-Harabasz (higher is better);
+* the gap statistic with the one-standard-error rule (Tibshirani, Walther & Hastie 2001),
+  reference sets uniform over the box of the component scores (PCA-aligned);
+* bootstrap stability: refit on resamples, match each resample's roles to the full fit's
+  by the Hungarian algorithm, and take each role's mean Jaccard overlap.
+
+The default decision: k is eligible when every role's stability is >= 0.6; silhouette,
+Calinski-Harabasz and the gap rule each pick among eligible k; the decision is the value
+two or more of them agree on, else the median of the three.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "eigenvalues", "parallel_analysis", "elbow_count", "variance_count", "choose_components",
+    "gap_statistic", "gap_pick", "bootstrap_stability", "choose_roles", "STABLE_JACCARD",
+]
+
+STABLE_JACCARD = 0.6
+
+
+def eigenvalues(z):
+    """Eigenvalues (descending) of the covariance (ddof=0) of z, shape (n, p) -> (p,).
+
+    On standardised data these are the correlation matrix's eigenvalues.
+    """
+    import numpy as np
+
+    z = np.asarray(z, float)
+    zc = z - z.mean(axis=0)
+    s = np.linalg.svd(zc, compute_uv=False)
+    ev = np.zeros(z.shape[1])
+    ev[: len(s)] = s ** 2 / len(z)
+    return ev
+
+
+def parallel_analysis(z, *, n_draws: int = 200, quantile: float = 0.95, seed: int = 0):
+    """Horn's parallel analysis.
+
+    Parameters
+    ----------
+    z : array of shape (n, p)
+        The matrix analysed (standardised, possibly column-weighted).
+    n_draws : int
+        Random normal matrices of the same shape and column scales.
+    quantile : float
+        Percentile of the random eigenvalues to beat (0.95; ``None`` for Horn's mean).
+
+    Returns
+    -------
+    n_keep : int
+        Components kept (at least 1).
+    threshold : array of shape (p,)
+        The random eigenvalue each observed one is compared with.
+    """
+    import numpy as np
+
+    z = np.asarray(z, float)
+    n, p = z.shape
+    rng = np.random.default_rng(seed)
+    scales = z.std(axis=0)
+    draws = np.empty((n_draws, p))
+    for b in range(n_draws):
+        r = rng.standard_normal((n, p))
+        r = (r - r.mean(axis=0)) / r.std(axis=0) * scales
+        draws[b] = eigenvalues(r)
+    threshold = draws.mean(axis=0) if quantile is None else np.quantile(draws, quantile, axis=0)
+    observed = eigenvalues(z)
+    above = observed > threshold
+    n_keep = int(np.argmin(above)) if not above.all() else p
+    return max(n_keep, 1), threshold
+
+
+def elbow_count(ratios) -> int:
+    """Knee of the cumulative explained-variance curve (farthest point above its chord)."""
+    import numpy as np
+
+    r = np.asarray(ratios, float)
+    if len(r) <= 2:
+        return 1
+    cum = np.cumsum(r)
+    x = np.linspace(0, 1, len(cum))
+    y = (cum - cum[0]) / (cum[-1] - cum[0]) if cum[-1] > cum[0] else x
+    return int(np.argmax(y - x)) + 1
+
+
+def variance_count(ratios, threshold: float) -> int:
+    """Smallest count whose cumulative explained variance reaches ``threshold``."""
+    import numpy as np
+
+    cum = np.cumsum(np.asarray(ratios, float))
+    return int(min(np.searchsorted(cum, threshold - 1e-12) + 1, len(cum)))
+
+
+def choose_components(z, rule, *, variance_threshold: float = 0.8, seed: int = 0):
+    """Apply a component rule and return (count, per-count diagnostics DataFrame)."""
+    import numpy as np
+    import pandas as pd
+
+    ev = eigenvalues(z)
+    ratios = ev / ev.sum()
+    n_par, thresholds = parallel_analysis(z, seed=seed)
+    picks = {
+        "variance": variance_count(ratios, variance_threshold),
+        "elbow": elbow_count(ratios),
+        "parallel": n_par,
+    }
+    if isinstance(rule, float):
+        n = variance_count(ratios, rule)
+    elif isinstance(rule, int):
+        n = int(min(rule, len(ev)))
+    else:
+        n = picks[rule]
+    diag = pd.DataFrame({
+        "n_components": np.arange(1, len(ev) + 1),
+        "eigenvalue": ev,
+        "explained_ratio": ratios,
+        "cumulative": np.cumsum(ratios),
+        "random_eigenvalue_95": thresholds,
+    })
+    for name, k in picks.items():
+        diag[f"pick_{name}"] = diag["n_components"] == k
+    diag["chosen"] = diag["n_components"] == n
+    return n, diag
+
+
+def _kmeans(x, k, *, seed, n_init):
+    from sklearn.cluster import KMeans
+
+    return KMeans(n_clusters=k, n_init=n_init, random_state=seed).fit(x)
+
+
+def gap_statistic(x, ks, *, n_refs: int = 10, seed: int = 0, n_init: int = 3):
+    """Gap(k) and s_k for each k, reference sets uniform over the data's bounding box.
+
+    Returns
+    -------
+    gap, s : arrays of shape (len(ks),)
+    """
+    import numpy as np
+
+    x = np.asarray(x, float)
+    rng = np.random.default_rng(seed)
+    lo, hi = x.min(axis=0), x.max(axis=0)
+    refs = [rng.uniform(lo, hi, size=x.shape) for _ in range(n_refs)]
+    gap, s = [], []
+    for k in ks:
+        log_w = np.log(_kmeans(x, k, seed=seed, n_init=n_init).inertia_)
+        ref_log_w = np.log([_kmeans(r, k, seed=seed, n_init=n_init).inertia_ for r in refs])
+        gap.append(ref_log_w.mean() - log_w)
+        s.append(ref_log_w.std() * np.sqrt(1 + 1 / n_refs))
+    return np.array(gap), np.array(s)
+
+
+def gap_pick(ks, gap, s) -> int:
+    """Smallest k with Gap(k) >= Gap(k+1) - s(k+1); the largest k if none."""
+    for i in range(len(ks) - 1):
+        if gap[i] >= gap[i + 1] - s[i + 1]:
+            return int(ks[i])
+    return int(ks[-1])
+
+
+def bootstrap_stability(x, labels, centers, *, n_boot: int = 20, seed: int = 0, n_init: int = 3):
+    """Mean Jaccard overlap of each role between the full fit and refits on resamples.
+
+    Each resample's centroids are matched to the full fit's by the Hungarian
+    algorithm; every row is then assigned to its nearest resample centroid.
+
+    Returns
+    -------
+    array of shape (k,)
+    """
+    import numpy as np
+    from scipy.optimize import linear_sum_assignment
+    from scipy.spatial.distance import cdist
+
+    x = np.asarray(x, float)
+    k = len(centers)
+    rng = np.random.default_rng(seed)
+    jac = np.zeros((n_boot, k))
+    for b in range(n_boot):
+        idx = rng.integers(0, len(x), len(x))
+        km = _kmeans(x[idx], k, seed=seed + b + 1, n_init=n_init)
+        rows, cols = linear_sum_assignment(cdist(centers, km.cluster_centers_))
+        mapping = np.empty(k, int)
+        mapping[cols] = rows
+        boot_labels = mapping[km.predict(x)]
+        for r in range(k):
+            a, c = labels == r, boot_labels == r
+            union = (a | c).sum()
+            jac[b, r] = (a & c).sum() / union if union else 1.0
+    return jac.mean(axis=0)
+
+
+def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 10,
+                 n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000):
+    """Pick the number of roles; returns (k, per-k diagnostics DataFrame, stability by k)."""
+    import numpy as np
+    import pandas as pd
+    from sklearn.metrics import calinski_harabasz_score, silhouette_score
+
+    x = np.asarray(x, float)
+    if isinstance(rule, int):
+        ks = [rule]
+    else:
+        ks = list(range(2, int(min(max_roles, len(x) - 1)) + 1))
+    rows, stability = [], {}
+    for k in ks:
+        km = _kmeans(x, k, seed=seed, n_init=n_init)
+        labels = km.labels_
+        row = {"k": k, "inertia": km.inertia_}
+        if k >= 2 and len(set(labels)) > 1:
+            row["silhouette"] = silhouette_score(
+                x, labels, sample_size=min(sample_size, len(x)), random_state=seed)
+            row["calinski_harabasz"] = calinski_harabasz_score(x, labels)
+        else:
+            row["silhouette"] = row["calinski_harabasz"] = np.nan
+        stab = bootstrap_stability(x, labels, km.cluster_centers_, n_boot=n_boot, seed=seed)
+        stability[k] = stab
+        row["stability_min"], row["stability_mean"] = float(stab.min()), float(stab.mean())
+        rows.append(row)
+    diag = pd.DataFrame(rows)
+    gap_ks = [1] + ks + [ks[-1] + 1] if len(ks) > 1 else ks + [ks[-1] + 1]
+    gap, s = gap_statistic(x, gap_ks, n_refs=n_refs, seed=seed)
+    by_k = dict(zip(gap_ks, zip(gap, s)))
+    diag["gap"] = [by_k[k][0] for k in ks]
+    diag["gap_se"] = [by_k[k][1] for k in ks]
+    if isinstance(rule, int):
+        diag["eligible"] = True
+        diag["chosen"] = True
+        return rule, diag, stability
+    eligible = diag["stability_min"] >= STABLE_JACCARD
+    if not eligible.any():
+        eligible = diag["stability_min"] == diag["stability_min"].max()
+    diag["eligible"] = eligible
+    el = diag[eligible]
+    sil_k = int(el.loc[el["silhouette"].idxmax(), "k"])
+    ch_k = int(el.loc[el["calinski_harabasz"].idxmax(), "k"])
+    gk = np.array(gap_ks)
+    gap_k = gap_pick(gk, gap, s)
+    if gap_k not in set(el["k"]):
+        later = el["k"][el["k"] >= gap_k]
+        gap_k = int(later.min()) if len(later) else int(el["k"].max())
+    votes = [sil_k, ch_k, gap_k]
+    agreed = [v for v in votes if votes.count(v) >= 2]
+    k = agreed[0] if agreed else int(np.median(votes))
+    diag["pick_silhouette"] = diag["k"] == sil_k
+    diag["pick_calinski_harabasz"] = diag["k"] == ch_k
+    diag["pick_gap"] = diag["k"] == gap_k
+    diag["chosen"] = diag["k"] == k
+    return k, diag, stability
