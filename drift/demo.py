@@ -95,7 +95,7 @@ class _Player:
         shares, rates, shoot = (np.array(x, float) for x in ARCHETYPES[self.role])
         if self.between:
             s2, r2, h2 = (np.array(x, float) for x in ARCHETYPES[_NEIGHBOUR[self.role]])
-            shares, rates, shoot = (0.62 * a + 0.38 * b for a, b in ((shares, s2), (rates, r2), (shoot, h2)))
+            shares, rates, shoot = (0.57 * a + 0.43 * b for a, b in ((shares, s2), (rates, r2), (shoot, h2)))
         self.shares = rng.dirichlet(shares * 120 + 0.05)
         self.rates = rates * np.exp(rng.normal(0, 0.08, len(rates)))
         self.shoot = shoot + rng.normal(0, [0.015, 0.035, 0.035])
@@ -163,7 +163,7 @@ def _minutes_for(tier, rng):
 
 def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 19,
                     change_rate: float = 0.06, trade_rate: float = 0.12,
-                    midseason_rate: float = 0.04, between_rate: float = 0.10) -> DemoLeague:
+                    midseason_rate: float = 0.04, between_rate: float = 0.15) -> DemoLeague:
     """Generate the fictional league.
 
     Parameters

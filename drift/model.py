@@ -10,12 +10,32 @@ Pipeline (all constants learned on the pool only):
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 from .errors import ModelFileError, ModelQualityWarning, NotFittedError
 
-__all__ = ["RoleModel", "SCHEMA_VERSION"]
+__all__ = ["RoleModel", "NoiseState", "SCHEMA_VERSION"]
 
 SCHEMA_VERSION = 1
 _FITTED = "centroids_"
+
+
+@dataclass(frozen=True)
+class NoiseState:
+    """Per-value sampling variance ``var``, shrinkage ``factor`` and share term ``u``, each (n, p).
+
+    ``u`` is non-zero for play-type shares only: their noise covariance is
+    -u_a u_b off the diagonal (multinomial), so a share's rise is partly
+    another's fall.
+    """
+
+    var: object
+    factor: object
+    u: object
+    base: object  # (n,) minutes or possessions of each row
+
+    def take(self, index) -> "NoiseState":
+        return NoiseState(self.var[index], self.factor[index], self.u[index], self.base[index])
 
 
 class RoleModel:
@@ -62,8 +82,10 @@ class RoleModel:
         Pooled within-role variance per component (for membership probabilities).
     distance_q99_ : float
         99th percentile of the pool's distances to their nearest role.
-    noise_scale_ : float
-        Calibration of the move noise model on the pool's returning players (1 = as modelled).
+    noise_calibration_ : list of two floats
+        (a, b): the move noise model's covariance is multiplied by a + b x, x being
+        1/m1 + 1/m2 of the two samples over its pool median ``calibration_sample_``;
+        fitted on the pool's returning players ((1, 0) = as modelled).
     component_diagnostics_, role_diagnostics_ : DataFrame
     reference_seasons_ : list of str
     n_pool_ : int
@@ -123,7 +145,8 @@ class RoleModel:
         self.families_ = spec.families
         self.noise_ = fit_noise(pool, spec, exposure)
         shrink = self.noise_policy in ("shrink", "shrink+weight")
-        processed, _ = self._process(pool[list(names)].to_numpy(float), exposure, shrink=shrink)
+        processed, _ = self._process(pool[list(names)].to_numpy(float), exposure,
+                                     _base(pool), shrink=shrink)
         self.scaler_mean_ = processed.mean(axis=0)
         scale = processed.std(axis=0)
         self.scaler_scale_ = np.where(scale > 0, scale, 1.0)
@@ -170,8 +193,7 @@ class RoleModel:
         self.reference_seasons_ = sorted(map(str, pool["season"].unique()))
         self.n_pool_ = int(len(pool))
         self.fingerprint_ = _fingerprint(pool, names)
-        self.noise_scale_ = 1.0
-        self.noise_scale_ = self._calibrate_noise(pool, scores, exposure)
+        self.noise_calibration_ = self._calibrate_noise(pool, scores, exposure)
         weak = [rid for rid, s in zip(self.role_ids_, self.role_stability_) if s < STABLE_JACCARD]
         if weak:
             warnings.warn(f"role(s) {weak} do not reproduce on resamples "
@@ -179,22 +201,30 @@ class RoleModel:
                           ModelQualityWarning, stacklevel=2)
         return self
 
-    def _process(self, values, exposure, *, shrink):
+    def _process(self, values, exposure, base, *, shrink):
         """Processed features (shrunk or mean-filled) and their noise variance, both (n, p)."""
         import numpy as np
+
+        from .noise import level_term
 
         mean = self.noise_["mean"].to_numpy(float)
         sigma2 = self.noise_["sigma2"].to_numpy(float)
         tau2 = self.noise_["tau2"].to_numpy(float)
         has = np.isfinite(values) & (exposure > 0)
+        level = np.column_stack([level_term(values[:, j], exposure[:, j], fam)
+                                 for j, fam in enumerate(self.families_)])
         with np.errstate(divide="ignore", invalid="ignore"):
-            v = np.where(has, sigma2 / np.where(has, exposure, 1.0), 0.0)
+            v = np.where(has, sigma2 * level / np.where(has, exposure, 1.0), 0.0)
             factor = np.where(has, tau2 / (tau2 + v), 0.0) if shrink else has.astype(float)
         factor = np.nan_to_num(factor, nan=1.0)
         y = np.where(has, values, mean)
         processed = mean + factor * (y - mean)
-        noise_var = factor ** 2 * v
-        return processed, noise_var
+        # shares of one player's possessions are multinomial: Cov(a, b) = -u_a u_b
+        is_share = np.array([f == "share" for f in self.families_])
+        with np.errstate(divide="ignore", invalid="ignore"):
+            p_smooth = (np.nan_to_num(values) * exposure + 0.5) / (exposure + 1.0)
+            u = np.where(has & is_share, np.sqrt(sigma2 / np.where(has, exposure, 1.0)) * p_smooth, 0.0)
+        return processed, NoiseState(v, factor, np.nan_to_num(u), base)
 
     def _calibrate_noise(self, pool, scores, exposure):
         import numpy as np
@@ -203,17 +233,39 @@ class RoleModel:
         from .noise import consecutive_pairs
 
         i1, i2 = consecutive_pairs(pool)
+        self.noise_calibration_ = [1.0, 0.0]
+        self.calibration_sample_ = 1.0
         if len(i1) < 30:
-            return 1.0
-        _, nv = self._process(pool[list(self.features_)].to_numpy(float), exposure,
+            return [1.0, 0.0]
+        _, nv = self._process(pool[list(self.features_)].to_numpy(float), exposure, _base(pool),
                               shrink=self.noise_policy in ("shrink", "shrink+weight"))
-        d2 = self.move_statistic(scores[i2] - scores[i1], nv[i1], nv[i2])
+        self.noise_calibration_ = [1.0, 0.0]
+        self.calibration_sample_ = float(np.median(1 / nv.base[i1] + 1 / nv.base[i2]))
+        d2 = self.move_statistic(scores[i2] - scores[i1], nv.take(i1), nv.take(i2))
+        x = (1 / nv.base[i1] + 1 / nv.base[i2]) / self.calibration_sample_
         q = scores.shape[1]
-        c = float(np.median(d2) / chi2.ppf(0.5, q))
-        for _ in range(5):  # drop clear movers, match the median of the truncated null
-            keep = d2 <= c * chi2.ppf(0.999, q)
-            c = float(np.median(d2[keep]) / chi2.ppf(0.5 * 0.999, q))
-        return c
+        keep = np.ones(len(d2), bool)
+        a, b = 1.0, 0.0
+        for _ in range(5):
+            # bins of sample size; in each, the scale that puts the median on the
+            # null's (truncated) median, then a line through the bins
+            edges = np.quantile(x[keep], np.linspace(0, 1, 6))
+            which = np.clip(np.searchsorted(edges, x, side="right") - 1, 0, 4)
+            xs, cs, ws = [], [], []
+            for bin_ in range(5):
+                sel = keep & (which == bin_)
+                if sel.sum() >= 10:
+                    xs.append(x[sel].mean())
+                    cs.append(np.median(d2[sel]) / chi2.ppf(0.5 * 0.999, q))
+                    ws.append(sel.sum())
+            if len(xs) >= 2 and np.ptp(xs) > 0:
+                b, a = np.polyfit(xs, cs, 1, w=np.sqrt(ws))
+            else:
+                a, b = float(np.median(d2) / chi2.ppf(0.5, q)), 0.0
+            if a <= 0 or a + b * x.min() <= 0:
+                a, b = float(np.median(d2[keep]) / chi2.ppf(0.5 * 0.999, q)), 0.0
+            keep = d2 / (a + b * x) <= chi2.ppf(0.999, q)
+        return [float(a), float(b)]
 
     # ------------------------------------------------------------------ using
     def _check_fitted(self):
@@ -236,10 +288,10 @@ class RoleModel:
         return table[list(self.features_)].to_numpy(float), exposure
 
     def processed(self, table):
-        """Processed feature values and their noise variance, each of shape (n, p)."""
+        """Processed feature values, shape (n, p), and their :class:`NoiseState`."""
         self._check_fitted()
         values, exposure = self._matrix(table)
-        return self._process(values, exposure, shrink=self.noise_policy in ("shrink", "shrink+weight"))
+        return self._process(values, exposure, _base(table), shrink=self.noise_policy in ("shrink", "shrink+weight"))
 
     def scores_from_processed(self, processed):
         """Component scores, shape (n, q), of processed feature values of shape (n, p)."""
@@ -264,29 +316,45 @@ class RoleModel:
 
         return np.asarray(self.role_ids_)[self.distances(self.transform(table)).argmin(axis=1)]
 
-    def score_noise_cov(self, noise_var):
-        """Noise covariance in component space, shape (n, q, q), from feature noise of shape (n, p)."""
+    def score_noise_cov(self, feature_var):
+        """Covariance in component space, shape (n, q, q), of independent feature noise (n, p)."""
         import numpy as np
 
         load = self.components_ * (self.weights_ / self.scaler_scale_)  # (q, p)
-        return np.einsum("qp,np,rp->nqr", load, noise_var, load)
+        return np.einsum("qp,np,rp->nqr", load, feature_var, load)
 
-    def move_cov(self, noise_var_from, noise_var_to):
-        """Null covariance of a move between two placements, shape (n, q, q).
+    def move_feature_var(self, noise_from, noise_to):
+        """Null variance of each processed feature's change between two placements, shape (n, p).
 
-        Sampling noise of both seasons plus the typical true yearly change of a
-        returning player, times the pool calibration ``noise_scale_``.
+        Var = B1^2 v1 + B2^2 v2 + (B2 - B1)^2 tau2 + B1 B2 drift: the sampling noise of
+        both, the change that unequal shrinkage alone makes for a player away from
+        the mean, and the typical true yearly change of a returning player.
         """
+        b1, b2 = noise_from.factor, noise_to.factor
+        tau2 = self.noise_["tau2"].to_numpy(float)
+        drift = self.noise_["drift_var"].to_numpy(float)
+        return (b1 ** 2 * noise_from.var + b2 ** 2 * noise_to.var
+                + (b2 - b1) ** 2 * tau2 + b1 * b2 * drift)
+
+    def move_cov(self, noise_from, noise_to):
+        """Null covariance of moves in component space, shape (n, q, q), calibrated on the pool."""
         import numpy as np
 
-        drift = np.broadcast_to(self.noise_["drift_var"].to_numpy(float), noise_var_from.shape)
-        return self.noise_scale_ * self.score_noise_cov(noise_var_from + noise_var_to + drift)
+        load = self.components_ * (self.weights_ / self.scaler_scale_)  # (q, p)
+        cov = self.score_noise_cov(self.move_feature_var(noise_from, noise_to))
+        for state in (noise_from, noise_to):
+            u = state.factor * state.u
+            lu = u @ load.T  # (n, q)
+            cov = cov + self.score_noise_cov(u ** 2) - lu[:, :, None] * lu[:, None, :]
+        a, b = self.noise_calibration_
+        x = (1 / noise_from.base + 1 / noise_to.base) / self.calibration_sample_
+        return (a + b * x)[:, None, None] * cov
 
-    def move_statistic(self, delta, noise_var_from, noise_var_to):
+    def move_statistic(self, delta, noise_from, noise_to):
         """Squared Mahalanobis length of moves (n, q) under the null: chi-square with q d.o.f."""
         import numpy as np
 
-        cov = self.move_cov(noise_var_from, noise_var_to)
+        cov = self.move_cov(noise_from, noise_to)
         cov = cov + np.eye(cov.shape[1])[None] * 1e-9
         solved = np.linalg.solve(cov, delta[..., None])[..., 0]
         return (delta * solved).sum(axis=1)
@@ -331,7 +399,8 @@ class RoleModel:
                           self.role_stability_, self.role_sizes_, self.centroids_,
                           self.centroids_features_)],
             "within_var": self.within_var_, "distance_q99": self.distance_q99_,
-            "noise_scale": self.noise_scale_,
+            "noise_calibration": list(self.noise_calibration_),
+            "calibration_sample": self.calibration_sample_,
             "component_diagnostics": _records(self.component_diagnostics_),
             "role_diagnostics": _records(self.role_diagnostics_),
             "reference_seasons": list(self.reference_seasons_), "n_pool": self.n_pool_,
@@ -375,7 +444,8 @@ class RoleModel:
             model.centroids_features_ = np.asarray([r["centroid_features"] for r in roles], float)
             model.within_var_ = float(data["within_var"])
             model.distance_q99_ = float(data["distance_q99"])
-            model.noise_scale_ = float(data["noise_scale"])
+            model.noise_calibration_ = [float(v) for v in data["noise_calibration"]]
+            model.calibration_sample_ = float(data["calibration_sample"])
             model.component_diagnostics_ = pd.DataFrame(data["component_diagnostics"])
             model.role_diagnostics_ = pd.DataFrame(data["role_diagnostics"])
             model.reference_seasons_ = list(data["reference_seasons"])
@@ -422,6 +492,15 @@ class RoleModel:
             raise ModelFileError(
                 f"the data does not match the model: missing features {missing}; "
                 "give the same feature columns, or fit a new model")
+
+
+def _base(table):
+    """Sample size of each row: possessions when every row has them, else minutes."""
+    import numpy as np
+
+    if "possessions" in table.columns and table["possessions"].notna().all():
+        return np.maximum(table["possessions"].to_numpy(float), 1.0)
+    return np.maximum(table["minutes"].to_numpy(float), 1.0)
 
 
 def _records(frame):

@@ -2,7 +2,11 @@
 
 Model, per feature f and player-season i with sample (exposure) e_if::
 
-    observed = true + noise,   Var(noise) = sigma2_f / e_if
+    observed = true + noise,   Var(noise) = sigma2_f * g_f(y) / e_if
+
+with g = 1 for most features and g = p(1 - p) for play-type shares (a share is a
+proportion of possessions, so its noise is binomial: largest near one half,
+nil for a play type never used); p is smoothed toward 1/2 by half a possession.
 
 ``sigma2_f`` is estimated from returning players: for two seasons of the same
 player, Var(y2 - y1) = drift_f + sigma2_f (1/e1 + 1/e2), where ``drift_f`` is the
@@ -20,7 +24,8 @@ is exactly the James-Stein factor of Efron & Morris (1975),
 
 from __future__ import annotations
 
-__all__ = ["james_stein_factor", "shrinkage_factors", "fit_noise", "consecutive_pairs"]
+__all__ = ["james_stein_factor", "shrinkage_factors", "fit_noise", "consecutive_pairs",
+           "level_term"]
 
 _MAD_TO_SD = 1.4826
 
@@ -74,6 +79,17 @@ def shrinkage_factors(values, noise_var, *, tau2=None):
         factors = np.where(ok, tau2 / (tau2 + v), 0.0)
     factors = np.where(ok & (v == 0), 1.0, factors)
     return np.nan_to_num(factors, nan=0.0), float(tau2)
+
+
+def level_term(values, exposure, family: str):
+    """The level factor g(y) of the noise variance (see module docstring), same shape as values."""
+    import numpy as np
+
+    if family != "share":
+        return np.ones_like(np.asarray(values, float))
+    e = np.asarray(exposure, float)
+    p = (np.nan_to_num(np.asarray(values, float)) * e + 0.5) / (e + 1.0)
+    return p * (1 - p)
 
 
 def consecutive_pairs(table):
@@ -156,17 +172,23 @@ def fit_noise(table, spec, exposure):
         has = np.isfinite(y) & (e > 0)
         ok = has[first] & has[second]
         i1, i2 = first[ok], second[ok]
+        fam = spec.families[j]
         if len(i1) >= 20:
-            x = 1 / e[i1] + 1 / e[i2]
+            mean_e = (e[i1] + e[i2]) / 2
+            g = level_term((y[i1] + y[i2]) / 2, mean_e, fam)
+            x = g * (1 / e[i1] + 1 / e[i2])
             drift_var, sigma2 = _robust_line(x, y[i2] - y[i1])
             r = float(np.corrcoef(y[i1], y[i2])[0, 1]) if np.std(y[i1]) > 0 and np.std(y[i2]) > 0 else np.nan
         else:
-            between, sigma2 = _robust_line(1 / e[has], y[has] - np.median(y[has])) if has.any() else (0.0, 0.0)
+            g = level_term(y[has], e[has], fam)
+            between, sigma2 = (_robust_line(g / e[has], y[has] - np.median(y[has]))
+                               if has.any() else (0.0, 0.0))
             drift_var, r = 0.0, np.nan
-        v = np.where(has, sigma2 / np.where(has, e, 1.0), np.inf)
+        v = np.where(has, sigma2 * level_term(y, e, fam) / np.where(has, e, 1.0), np.inf)
         _, tau2 = shrinkage_factors(np.where(has, y, np.nan), v)
         med_e = float(np.median(e[has])) if has.any() else 0.0
-        noise_at_median = sigma2 / med_e if med_e > 0 else np.inf
+        med_g = float(np.median(level_term(y[has], e[has], fam))) if has.any() else 1.0
+        noise_at_median = sigma2 * med_g / med_e if med_e > 0 else np.inf
         rows.append({
             "feature": name, "family": spec.families[j],
             "mean": float(np.nanmean(y[has])) if has.any() else 0.0,

@@ -1,0 +1,179 @@
+"""Player moves: how far a player moved between two placements, and whether it beats noise.
+
+For a pair of placements (two seasons, or the stints either side of a trade):
+
+* ``distance`` is the Euclidean length of the move in component space;
+* its null distribution comes from the noise model (:mod:`drift.noise`): the
+  sampling noise of both placements at their sample sizes plus the typical
+  true yearly change of a returning player, carried into component space and
+  calibrated on the pool's returning players. The squared Mahalanobis length
+  is chi-square with q degrees of freedom under "no real change": ``p_value``
+  and the equivalent one-sided normal ``z``;
+* ``status``: *changed* (roles differ and the move is beyond noise, p < alpha),
+  *unsettled* (roles differ within noise: a boundary player's label flip),
+  *shifted* (same role, beyond noise), *steady* (same role, within noise).
+  ``role_changed`` is true only for *changed*.
+"""
+
+from __future__ import annotations
+
+__all__ = ["pair_moves", "consecutive_season_pairs", "requested_pairs", "stint_pairs",
+           "comparables", "MOVE_STATUSES"]
+
+MOVE_STATUSES = ("changed", "unsettled", "shifted", "steady")
+
+
+def consecutive_season_pairs(seasons):
+    """Row positions of each player's consecutive qualifying seasons (gaps allowed)."""
+    from .noise import consecutive_pairs
+
+    return consecutive_pairs(seasons)
+
+
+def requested_pairs(seasons, season_a: str, season_b: str):
+    """Row positions of players qualifying in both requested seasons."""
+    import numpy as np
+
+    a = seasons.index[seasons["season"] == season_a]
+    b = seasons.index[seasons["season"] == season_b]
+    left = seasons.loc[a, ["player_id"]].reset_index().rename(columns={"index": "i"})
+    right = seasons.loc[b, ["player_id"]].reset_index().rename(columns={"index": "j"})
+    both = left.merge(right, on="player_id")
+    pos = {ix: n for n, ix in enumerate(seasons.index)}
+    return (np.array([pos[i] for i in both["i"]], int), np.array([pos[j] for j in both["j"]], int))
+
+
+def stint_pairs(stints):
+    """Row positions of each traded player's stint n and stint n + 1 in one season."""
+    import numpy as np
+
+    s = stints.reset_index(drop=True)
+    order = np.lexsort((s["stint"].to_numpy(), s["season"].to_numpy(), s["player_id"].to_numpy()))
+    key = (s["player_id"] + "\x00" + s["season"]).to_numpy()[order]
+    same = key[1:] == key[:-1]
+    return order[:-1][same], order[1:][same]
+
+
+def pair_moves(model, table, placements, first, second, *, alpha=0.05, n_drivers=3, kind="consecutive"):
+    """Moves between rows ``first[i]`` and ``second[i]`` of ``table``.
+
+    Parameters
+    ----------
+    model : RoleModel
+    table : DataFrame
+        The placed rows (season rows or stints) with features.
+    placements : DataFrame
+        ``model.place(table)``, same row order.
+    first, second : int arrays of length m
+    alpha : float
+        Level for "beyond noise".
+    n_drivers : int
+        Features reported as driving each move.
+    kind : str
+        Written to the ``kind`` column.
+
+    Returns
+    -------
+    DataFrame, one row per pair (columns in README, "moves.csv").
+    """
+    import numpy as np
+    import pandas as pd
+    from scipy.stats import chi2, norm
+
+    table = table.reset_index(drop=True)
+    processed, noise_var = model.processed(table)
+    scores = model.scores_from_processed(processed)
+    q = scores.shape[1]
+    delta = scores[second] - scores[first]
+    distance = np.sqrt((delta ** 2).sum(axis=1))
+    nf, nt = noise_var.take(first), noise_var.take(second)
+    d2 = model.move_statistic(delta, nf, nt) if len(first) else np.zeros(0)
+    cov = model.move_cov(nf, nt) if len(first) else np.zeros((0, q, q))
+    p = chi2.sf(d2, q)
+    z = norm.isf(np.clip(p, 1e-300, 1.0))
+    pl = placements.reset_index(drop=True)
+    out = pd.DataFrame({
+        "kind": kind,
+        "player_id": table["player_id"].to_numpy()[first],
+        "player": table["player"].to_numpy()[first],
+        "season_from": table["season"].to_numpy()[first],
+        "season_to": table["season"].to_numpy()[second],
+    })
+    if "stint" in table.columns:
+        out["stint_from"] = table["stint"].to_numpy()[first].astype(int)
+        out["stint_to"] = table["stint"].to_numpy()[second].astype(int)
+        out["team_from"] = table["team"].to_numpy()[first]
+        out["team_to"] = table["team"].to_numpy()[second]
+        out["traded"] = True
+    else:
+        last = table.get("team_last", table["team"]).to_numpy()
+        first_team = table.get("team_first", table["team"]).to_numpy()
+        n_stints = table.get("n_stints", pd.Series(1, index=table.index)).to_numpy()
+        out["team_from"] = table["team"].to_numpy()[first]
+        out["team_to"] = table["team"].to_numpy()[second]
+        out["traded"] = (last[first] != first_team[second]) | (n_stints[first] > 1) | (n_stints[second] > 1)
+    out["minutes_from"] = table["minutes"].to_numpy()[first]
+    out["minutes_to"] = table["minutes"].to_numpy()[second]
+    role_from = pl["role"].to_numpy()[first]
+    role_to = pl["role"].to_numpy()[second]
+    out["role_from"], out["role_to"] = role_from, role_to
+    out["prob_from"] = pl["role_prob"].to_numpy()[first]
+    out["prob_to"] = pl["role_prob"].to_numpy()[second]
+    out["prob_to_of_role_from"] = [pl.at[j, f"prob_{r}"] for j, r in zip(second, role_from)]
+    out["distance"] = distance
+    out["noise_distance"] = np.sqrt(np.trace(cov, axis1=1, axis2=2)) if len(first) else np.zeros(0)
+    out["z"] = z
+    out["p_value"] = p
+    out["beyond_noise"] = p < alpha
+    group = out["season_from"].astype(str) + "|" + out["season_to"].astype(str)
+    out["percentile"] = out.groupby(group)["distance"].rank(pct=True) * 100
+    differs = role_from != role_to
+    out["status"] = np.select(
+        [differs & out["beyond_noise"], differs, out["beyond_noise"]],
+        ["changed", "unsettled", "shifted"], default="steady")
+    out["role_changed"] = out["status"] == "changed"
+    # drivers: change of each processed feature in pool SDs, weighted as the model weights it
+    change = processed[second] - processed[first]
+    change_sd = change / model.scaler_scale_
+    rank = np.argsort(-np.abs(change_sd * model.weights_), axis=1, kind="stable")[:, :n_drivers]
+    feats = np.asarray(model.features_)
+    rows = np.arange(len(first))[:, None]
+    for n in range(min(n_drivers, len(feats))):
+        out[f"driver_{n + 1}"] = feats[rank[:, n]] if len(first) else []
+        out[f"driver_{n + 1}_change"] = change[rows[:, 0], rank[:, n]] if len(first) else []
+        out[f"driver_{n + 1}_change_sd"] = change_sd[rows[:, 0], rank[:, n]] if len(first) else []
+    for j in range(q):
+        out[f"move_pc{j + 1}"] = delta[:, j]
+    return out
+
+
+def comparables(model, placements, pool_placements, *, n=5):
+    """The ``n`` nearest pool player-seasons of every placement (other players only).
+
+    Returns
+    -------
+    DataFrame: player_id, player, season, rank, comp_player_id, comp_player,
+    comp_season, comp_team, comp_role, distance.
+    """
+    import numpy as np
+    import pandas as pd
+    from sklearn.neighbors import NearestNeighbors
+
+    q = model.components_.shape[0]
+    pcs = [f"pc{j + 1}" for j in range(q)]
+    pool = pool_placements.reset_index(drop=True)
+    extra = int(pool.groupby("player_id").size().max()) if len(pool) else 0
+    k = min(n + extra, len(pool))
+    nn = NearestNeighbors(n_neighbors=k).fit(pool[pcs].to_numpy())
+    dist, idx = nn.kneighbors(placements[pcs].to_numpy())
+    pool_ids = pool["player_id"].to_numpy()
+    records = []
+    for i, row in enumerate(placements.itertuples(index=False)):
+        keep = pool_ids[idx[i]] != row.player_id
+        for rank, (j, d) in enumerate(zip(idx[i][keep][:n], dist[i][keep][:n]), start=1):
+            c = pool.iloc[j]
+            records.append({"player_id": row.player_id, "player": row.player, "season": row.season,
+                            "rank": rank, "comp_player_id": c["player_id"], "comp_player": c["player"],
+                            "comp_season": c["season"], "comp_team": c["team"], "comp_role": c["role"],
+                            "distance": float(d)})
+    return pd.DataFrame(records)
