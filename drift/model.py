@@ -485,13 +485,16 @@ class RoleModel:
             raise ModelFileError(f"{path}: not valid JSON ({exc}); the file is broken, refit") from None
         return cls.from_dict(data, source=str(path))
 
-    def check_features(self, columns):
+    def check_features(self, features):
         """Refuse data whose feature columns differ from the model's, listing both sides."""
-        missing = [f for f in self.features_ if f not in columns]
-        if missing:
+        features = list(features)
+        missing = [f for f in self.features_ if f not in features]
+        unexpected = [f for f in features if f not in self.features_]
+        if missing or unexpected:
             raise ModelFileError(
-                f"the data does not match the model: missing features {missing}; "
-                "give the same feature columns, or fit a new model")
+                f"the data does not match the model: missing features {missing}, unexpected "
+                f"features {unexpected}; give the model's feature columns (drop extras with "
+                "[intake] exclude in the config) or fit a new model")
 
 
 def _base(table):

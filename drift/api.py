@@ -1,0 +1,254 @@
+"""The public Python API: the stages wired together.
+
+``prepare`` reads and filters; ``fit_model`` fits the reference model; ``analyse``
+places, measures moves and role drift; ``run`` does all of it and writes the
+outputs; ``place_files`` places seasons with a saved model.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from .config import Config
+from .errors import InputError
+
+__all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files",
+           "write_outputs"]
+
+
+@dataclass(frozen=True)
+class Prepared:
+    """Intake and filters done.
+
+    ``seasons``: every combined player-season; ``kept``: those passing the filters;
+    ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
+    players; ``missing``: per-feature counts of missing values and what was done.
+    """
+
+    seasons: object
+    kept: object
+    excluded: object
+    stints: object
+    features: tuple
+    missing: object
+    files: tuple
+    ignored_columns: tuple
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Everything a run produces (each a DataFrame, except ``model``)."""
+
+    model: object
+    placements: object
+    moves: object
+    stints: object
+    role_drift: object
+    comparables: object
+    alignment: object = None
+    prepared: Prepared | None = None
+    config: Config = field(default_factory=Config)
+
+
+def _missing_table(seasons, spec, filled):
+    import pandas as pd
+
+    rows = []
+    for name, fam in zip(spec.names, spec.families):
+        n = int(filled.get(name, 0)) if fam == "share" else int(seasons[name].isna().sum())
+        if fam == "share":
+            action = "play type not used: share set to 0"
+        elif fam == "efficiency":
+            action = "no possessions of this play type: pool mean (no sample to shrink)"
+        else:
+            action = "missing: pool mean"
+        rows.append({"feature": name, "family": fam, "missing": n, "action": action})
+    return pd.DataFrame(rows)
+
+
+def prepare(data, config: Config | None = None) -> Prepared:
+    """Read season files, combine stints, fill unused shares and apply the filters.
+
+    Parameters
+    ----------
+    data : path or list of paths
+    config : Config, optional
+
+    Returns
+    -------
+    Prepared
+    """
+    from .combine import combine_stints
+    from .features import apply_filters, feature_spec, fill_unused_shares
+    from .intake import read_seasons
+
+    config = config or Config()
+    raw = read_seasons(data, config)
+    spec = feature_spec(raw.features)
+    seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
+    seasons, filled = fill_unused_shares(seasons, spec)
+    missing = _missing_table(seasons, spec, filled)
+    kept, excluded = apply_filters(seasons, min_games=config.min_games,
+                                   min_minutes_per_game=config.min_minutes_per_game)
+    stints, _ = fill_unused_shares(stints, spec)
+    stints, _ = apply_filters(stints, min_games=config.min_stint_games,
+                              min_minutes_per_game=config.min_minutes_per_game)
+    if kept.empty:
+        raise InputError(
+            f"no player-season passes the filters (min_games={config.min_games}, "
+            f"min_minutes_per_game={config.min_minutes_per_game}); lower them with "
+            "--min-games / --min-minutes", file=raw.files[0])
+    for frame in (kept, seasons, stints):
+        frame.attrs["features"] = raw.features
+    return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
+                    features=raw.features, missing=missing, files=raw.files,
+                    ignored_columns=raw.ignored_columns)
+
+
+def reference_pool(prepared: Prepared, reference=None):
+    """The qualifying rows of the reference seasons (all seasons when ``reference`` is None)."""
+    kept = prepared.kept
+    if not reference:
+        return kept
+    available = sorted(kept["season"].unique())
+    unknown = [s for s in reference if s not in available]
+    if unknown:
+        raise InputError(f"reference season(s) {unknown} are not in the data; available: {available}")
+    pool = kept[kept["season"].isin(reference)].reset_index(drop=True)
+    pool.attrs["features"] = prepared.features
+    return pool
+
+
+def fit_model(prepared: Prepared, config: Config | None = None):
+    """Fit the reference model on the pool chosen by ``config.reference``."""
+    from .model import RoleModel
+
+    config = config or Config()
+    pool = reference_pool(prepared, config.reference)
+    model = RoleModel(components=config.components, variance_threshold=config.variance_threshold,
+                      roles=config.roles, max_roles=config.max_roles,
+                      noise_policy=config.noise_policy, seed=config.seed,
+                      role_names=dict(config.role_names))
+    try:
+        return model.fit(pool, features=prepared.features)
+    except ValueError as exc:
+        raise InputError(str(exc)) from None
+
+
+def analyse(prepared: Prepared, model, config: Config | None = None, *, alignment=None) -> Analysis:
+    """Place every qualifying season and stint, measure moves, role drift and comparables."""
+    import pandas as pd
+
+    from .moves import (comparables, consecutive_season_pairs, pair_moves, requested_pairs,
+                        stint_pairs)
+    from .roledrift import role_drift
+
+    config = config or Config()
+    kept = prepared.kept
+    placements = model.place(kept)
+    for extra in ("team_first", "team_last", "n_stints"):
+        if extra in kept.columns:
+            placements[extra] = kept[extra].to_numpy()
+    i1, i2 = consecutive_season_pairs(kept)
+    moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive")]
+    if config.compare:
+        a, b = config.compare
+        seasons = set(kept["season"])
+        for s in (a, b):
+            if s not in seasons:
+                raise InputError(f"--compare season {s!r} is not in the data; available: {sorted(seasons)}")
+        j1, j2 = requested_pairs(kept, a, b)
+        moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested"))
+    moves = pd.concat(moves, ignore_index=True)
+    stints = prepared.stints
+    if len(stints):
+        stint_place = model.place(stints)
+        stint_place["stint"] = stints["stint"].to_numpy()
+        s1, s2 = stint_pairs(stints)
+        stint_moves = pair_moves(model, stints.reset_index(drop=True), stint_place, s1, s2,
+                                 alpha=config.alpha, kind="stint")
+    else:
+        stint_moves = pd.DataFrame()
+    pool_mask = kept["season"].isin(model.reference_seasons_).to_numpy()
+    comps = comparables(model, placements, placements[pool_mask])
+    drift = role_drift(model, kept, seed=config.seed)
+    return Analysis(model=model, placements=placements, moves=moves, stints=stint_moves,
+                    role_drift=drift, comparables=comps, alignment=alignment,
+                    prepared=prepared, config=config)
+
+
+def write_outputs(analysis: Analysis, folder):
+    """Write every output file of a run into ``folder`` (see README, "Outputs")."""
+    from .report import write_report
+
+    folder = Path(folder)
+    analysis.model.save(folder / "model.json")
+    analysis.placements.to_csv(folder / "placements.csv", index=False)
+    analysis.moves.to_csv(folder / "moves.csv", index=False)
+    analysis.prepared.excluded.to_csv(folder / "excluded.csv", index=False)
+    analysis.stints.to_csv(folder / "stints.csv", index=False)
+    analysis.role_drift.to_csv(folder / "role_drift.csv", index=False)
+    analysis.comparables.to_csv(folder / "comparables.csv", index=False)
+    analysis.model.noise_.reset_index().to_csv(folder / "features.csv", index=False)
+    if analysis.alignment is not None:
+        analysis.alignment.table.to_csv(folder / "alignment.csv", index=False)
+    write_report(analysis, folder / "report.html")
+
+
+def run(data, out, config: Config | None = None, *, previous=None) -> Analysis:
+    """The whole job: read, fit, place, measure, and write ``out`` atomically.
+
+    Parameters
+    ----------
+    data : path or list of paths
+        Season files or folders.
+    out : path
+        Output folder; replaced only when the run succeeds.
+    config : Config, optional
+    previous : path, optional
+        A previous ``model.json`` whose role ids, names and descriptions are carried over.
+
+    Returns
+    -------
+    Analysis
+    """
+    from .align import align_models, relabel
+    from .model import RoleModel
+    from .outputs import atomic_folder
+
+    config = config or Config()
+    prev = RoleModel.load(previous) if previous else None
+    prepared = prepare(data, config)
+    model = fit_model(prepared, config)
+    alignment = None
+    if prev is not None:
+        alignment = align_models(prev, model)
+        relabel(model, prev, alignment, keep_names=dict(config.role_names))
+    analysis = analyse(prepared, model, config, alignment=alignment)
+    with atomic_folder(out) as tmp:
+        write_outputs(analysis, tmp)
+    return analysis
+
+
+def place_files(model_path, files, out, config: Config | None = None):
+    """Place season files with a saved model and write one CSV.
+
+    The model's features must all be present. Filters come from ``config``
+    (pass lower ``min_games`` for a partial season).
+
+    Returns
+    -------
+    DataFrame
+        The placements written.
+    """
+    from .model import RoleModel
+    from .outputs import atomic_file
+
+    model = RoleModel.load(model_path)
+    prepared = prepare(files, config)
+    model.check_features(prepared.features)
+    placements = model.place(prepared.kept)
+    with atomic_file(out) as tmp:
+        placements.to_csv(tmp, index=False)
+    return placements

@@ -1,0 +1,148 @@
+"""Command line: parse options, call the API, turn drift's errors into one line (exit 2)."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+__all__ = ["main", "build_parser"]
+
+_RUN_EXAMPLE = """example:
+  drift run demo_seasons --out drift-report
+  drift run seasons/ --out review --reference 2021-22 2022-23 2023-24 --roles 7 --compare 2021-22 2024-25
+"""
+_PLACE_EXAMPLE = """example:
+  drift place drift-report/model.json current/2025-26.csv --out early.csv --min-games 10
+"""
+_DEMO_EXAMPLE = """example:
+  drift demo --out my_demo --seed 7
+"""
+
+
+def _components(text: str):
+    if text in ("parallel", "elbow", "variance"):
+        return text
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(
+            f"{text!r}: give parallel, elbow, variance, a count (5) or a fraction (0.8)") from None
+    if value >= 1 and value.is_integer():
+        return int(value)
+    if 0 < value < 1:
+        return value
+    raise argparse.ArgumentTypeError(f"{text!r}: a count must be a whole number >= 1, a fraction in (0, 1)")
+
+
+def _roles(text: str):
+    if text == "auto":
+        return text
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r}: give auto or a whole number >= 2") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"{text!r}: the number of roles must be >= 1")
+    return value
+
+
+def _add_intake_options(p):
+    p.add_argument("--config", metavar="TOML", help="config file (columns, filters, model settings)")
+    p.add_argument("--min-games", type=int, metavar="N",
+                   help="fewest games for a season to be placed (default 20)")
+    p.add_argument("--min-minutes", type=float, metavar="MPG",
+                   help="fewest minutes per game (default 10)")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    from . import __version__
+
+    parser = argparse.ArgumentParser(
+        prog="drift", description="Season-over-season role drift for basketball front offices.")
+    parser.add_argument("--version", action="version", version=f"drift {__version__}")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    run = sub.add_parser("run", help="fit roles on a reference pool, place every season, measure moves",
+                         epilog=_RUN_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
+    run.add_argument("data", nargs="+", help="season files (.csv, .xlsx, .parquet) or folders of them")
+    run.add_argument("--out", required=True, metavar="DIR", help="output folder (replaced only on success)")
+    _add_intake_options(run)
+    run.add_argument("--reference", nargs="+", metavar="SEASON", help="seasons of the pool (default: all)")
+    run.add_argument("--roles", type=_roles, metavar="K", help="number of roles, or auto (default)")
+    run.add_argument("--components", type=_components, metavar="N|FRACTION|RULE",
+                     help="components: parallel (default), elbow, variance, a count or a fraction")
+    run.add_argument("--noise-policy", choices=("shrink", "weight", "shrink+weight", "none"),
+                     help="how small samples are handled (default shrink)")
+    run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
+    run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
+    run.add_argument("--alpha", type=float, help="level for 'beyond noise' (default 0.05)")
+    run.add_argument("--seed", type=int, help="random seed (default 0)")
+
+    place = sub.add_parser("place", help="place season files with a saved model",
+                           epilog=_PLACE_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
+    place.add_argument("model", help="model.json written by drift run")
+    place.add_argument("files", nargs="+", help="season files or folders")
+    place.add_argument("--out", required=True, metavar="FILE", help="CSV of placements to write")
+    _add_intake_options(place)
+
+    demo = sub.add_parser("demo", help="write the fictional demo league",
+                          epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
+    demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
+    demo.add_argument("--seed", type=int, default=2024, help="seed of the league (default 2024)")
+    return parser
+
+
+def _config(args):
+    from .config import load_config
+
+    config = load_config(args.config)
+    changes = {"min_games": args.min_games, "min_minutes_per_game": args.min_minutes}
+    if args.command == "run":
+        changes.update(reference=tuple(args.reference) if args.reference else None,
+                       roles=args.roles, components=args.components, noise_policy=args.noise_policy,
+                       compare=tuple(args.compare) if args.compare else None, alpha=args.alpha,
+                       seed=args.seed)
+    return config.replace(**changes)
+
+
+def _run(args):
+    from .api import run
+
+    analysis = run(args.data, args.out, _config(args), previous=args.previous)
+    moves = analysis.moves
+    changed = int((moves["status"] == "changed").sum()) if len(moves) else 0
+    print(f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} roles; "
+          f"{changed} role changes beyond noise; report: {args.out}/report.html")
+
+
+def _place(args):
+    from .api import place_files
+
+    placements = place_files(args.model, args.files, args.out, _config(args))
+    print(f"drift: placed {len(placements)} player-seasons; wrote {args.out}")
+
+
+def _demo(args):
+    from .demo import generate_league, write_league
+
+    files = write_league(args.out, generate_league(args.seed))
+    print(f"drift: wrote {len(files)} season files and the truth to {args.out}")
+
+
+def main(argv=None) -> int:
+    """Entry point; returns the exit code (0 ok, 2 a drift error)."""
+    from .errors import DriftError
+
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        {"run": _run, "place": _place, "demo": _demo}[args.command](args)
+    except DriftError as exc:
+        message = " ".join(str(exc).split("\n")[:2])
+        print(f"drift: error: {message}", file=sys.stderr)
+        return 2
+    return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,104 @@
+"""Role-definition drift: how each reference role's centre moves season by season.
+
+Each season is clustered on its own (K-means in the reference component space,
+as many groups as the model has roles), its groups are matched to the
+reference roles by the Hungarian algorithm on centroids in feature units
+scaled by the reference model's scaler, and each matched group's centroid is
+reported in feature units beside the reference centroid.
+"""
+
+from __future__ import annotations
+
+__all__ = ["role_drift", "drift_headlines"]
+
+
+def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
+    """Season-by-season centroids of every role, in feature units.
+
+    Parameters
+    ----------
+    model : RoleModel
+    seasons : DataFrame
+        Qualifying season rows with features and ``season``.
+
+    Returns
+    -------
+    DataFrame (long): season, role, role_name, n_players, match_cost, feature,
+    value, reference_value, change (value - reference_value), change_sd (in pool SDs),
+    change_from_first (value minus the role's value in the first season listed).
+    """
+    import numpy as np
+    import pandas as pd
+    from scipy.spatial.distance import cdist
+    from sklearn.cluster import KMeans
+
+    from .align import match_centroids
+
+    seasons = seasons.reset_index(drop=True)
+    processed, _ = model.processed(seasons)
+    scores = model.scores_from_processed(processed)
+    k = len(model.role_ids_)
+    ref = (np.asarray(model.centroids_features_) - model.scaler_mean_) / model.scaler_scale_
+    records = []
+    for season in sorted(seasons["season"].unique()):
+        sel = (seasons["season"] == season).to_numpy()
+        if sel.sum() < k * min_rows_per_role:
+            continue
+        km = KMeans(n_clusters=k, n_init=10, random_state=seed).fit(scores[sel])
+        cent = np.vstack([processed[sel][km.labels_ == g].mean(axis=0) for g in range(k)])
+        cost = cdist(ref, (cent - model.scaler_mean_) / model.scaler_scale_) / np.sqrt(ref.shape[1])
+        rows, cols = match_centroids(cost)
+        sizes = np.bincount(km.labels_, minlength=k)
+        for r, c in zip(rows, cols):
+            for j, feat in enumerate(model.features_):
+                records.append({
+                    "season": season, "role": model.role_ids_[r], "role_name": model.role_names_[r],
+                    "n_players": int(sizes[c]), "match_cost": float(cost[r, c]), "feature": feat,
+                    "value": float(cent[c, j]), "reference_value": float(model.centroids_features_[r][j]),
+                })
+    out = pd.DataFrame(records, columns=["season", "role", "role_name", "n_players", "match_cost",
+                                         "feature", "value", "reference_value"])
+    out["change"] = out["value"] - out["reference_value"]
+    sd = pd.Series(model.scaler_scale_, index=list(model.features_))
+    out["change_sd"] = out["change"] / out["feature"].map(sd)
+    first = out.groupby(["role", "feature"])["value"].transform("first")
+    out["change_from_first"] = out["value"] - first
+    return out
+
+
+def drift_headlines(drift, *, n_per_role=1):
+    """The largest change from the first season per role, as readable sentences.
+
+    Returns
+    -------
+    DataFrame: role, role_name, feature, season_first, season_last, change, change_sd, text.
+    """
+    import pandas as pd
+
+    from .describe import feature_label
+
+    if drift.empty:
+        return pd.DataFrame(columns=["role", "role_name", "feature", "season_first", "season_last",
+                                     "change", "change_sd", "text"])
+    seasons = sorted(drift["season"].unique())
+    first, last = seasons[0], seasons[-1]
+    a = drift[drift["season"] == first].set_index(["role", "feature"])
+    b = drift[drift["season"] == last].set_index(["role", "feature"])
+    both = a[["value", "change_sd"]].join(b[["value", "change_sd", "role_name"]],
+                                          lsuffix="_first", rsuffix="_last", how="inner")
+    both["change"] = both["value_last"] - both["value_first"]
+    # change_sd is (value - reference) / SD, so its difference is the change in SDs
+    both["change_sd"] = both["change_sd_last"] - both["change_sd_first"]
+    rows = []
+    for role, group in both.groupby(level="role"):
+        top = group.reindex(group["change_sd"].abs().sort_values(ascending=False).index).head(n_per_role)
+        for (r, feat), row in top.iterrows():
+            direction = "up" if row["change"] > 0 else "down"
+            rows.append({
+                "role": r, "role_name": row["role_name"], "feature": feat, "season_first": first,
+                "season_last": last, "change": row["change"], "change_sd": row["change_sd"],
+                "text": (f"{r} ({row['role_name']}): {feature_label(feat)} {direction} "
+                         f"{abs(row['change']):.3g} from {first} to {last} "
+                         f"({row['change_sd']:+.2f} pool SD)"),
+            })
+    return pd.DataFrame(rows)
