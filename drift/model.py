@@ -387,7 +387,7 @@ class RoleModel:
                          "n_init": self.n_init, "n_bootstrap": self.n_bootstrap,
                          "role_names": dict(self.role_names or {})},
             "features": list(self.features_), "families": list(self.families_),
-            "noise": {c: self.noise_[c].tolist() for c in self.noise_.columns},
+            "noise": {c: v.tolist() for c, v in self.noise_.reset_index().items()},
             "weights": arr(self.weights_), "scaler_mean": arr(self.scaler_mean_),
             "scaler_scale": arr(self.scaler_scale_), "pca_mean": arr(self.pca_mean_),
             "components": arr(self.components_),
@@ -428,7 +428,13 @@ class RoleModel:
             p = len(data["features"])
             model.features_ = tuple(data["features"])
             model.families_ = tuple(data["families"])
-            model.noise_ = pd.DataFrame(data["noise"]).set_index("feature")
+            noise = pd.DataFrame(data["noise"]).set_index("feature")
+            model.noise_ = noise
+            for col in model.noise_.columns:
+                if col in ("n_pairs", "missing"):
+                    model.noise_[col] = model.noise_[col].astype(int)
+                elif col != "family":
+                    model.noise_[col] = model.noise_[col].astype(float)
             model.weights_ = np.asarray(data["weights"], float)
             model.scaler_mean_ = np.asarray(data["scaler_mean"], float)
             model.scaler_scale_ = np.asarray(data["scaler_scale"], float)
@@ -467,8 +473,8 @@ class RoleModel:
         import json
         from pathlib import Path
 
-        Path(path).write_text(json.dumps(self.to_dict(), indent=1, allow_nan=True) + "\n",
-                              encoding="utf-8")
+        text = json.dumps(_plain(self.to_dict()), indent=1, allow_nan=False)
+        Path(path).write_text(text + "\n", encoding="utf-8")
 
     @classmethod
     def load(cls, path) -> "RoleModel":
@@ -504,6 +510,19 @@ def _base(table):
     if "possessions" in table.columns and table["possessions"].notna().all():
         return np.maximum(table["possessions"].to_numpy(float), 1.0)
     return np.maximum(table["minutes"].to_numpy(float), 1.0)
+
+
+def _plain(obj):
+    """JSON-ready copy: NaN and infinities become null (strict JSON has neither)."""
+    import math
+
+    if isinstance(obj, dict):
+        return {k: _plain(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_plain(v) for v in obj]
+    if isinstance(obj, float) and not math.isfinite(obj):
+        return None
+    return obj
 
 
 def _records(frame):

@@ -112,11 +112,18 @@ def consecutive_pairs(table):
 
 
 def _robust_line(x, d, *, n_bins=10):
-    """Fit Var(d) = a + b x from robust variances in quantile bins of x; returns a, b."""
+    """Fit Var(d) = a + b x from robust variances in quantile bins of x; returns a, b.
+
+    Where the spread shows no growth with x (too few rows, one sample size for
+    all, or a falling line) no sampling noise is claimed: b = 0 and all spread is a.
+    """
     import numpy as np
 
-    if len(x) < 20:
-        return 0.0, float(np.nanmedian(d ** 2 / np.maximum(x, 1e-12))) if len(x) else 0.0
+    def robust_var(v):
+        return float((_MAD_TO_SD * np.median(np.abs(v - np.median(v)))) ** 2) if len(v) else 0.0
+
+    if len(x) < 20 or np.ptp(x) == 0:
+        return robust_var(d), 0.0
     n_bins = int(min(n_bins, max(len(x) // 30, 2)))
     edges = np.quantile(x, np.linspace(0, 1, n_bins + 1))
     which = np.clip(np.searchsorted(edges, x, side="right") - 1, 0, n_bins - 1)
@@ -125,17 +132,15 @@ def _robust_line(x, d, *, n_bins=10):
         sel = which == b
         if sel.sum() < 8:
             continue
-        db = d[sel]
-        mad = np.median(np.abs(db - np.median(db)))
         xs.append(x[sel].mean())
-        vs.append((_MAD_TO_SD * mad) ** 2)
+        vs.append(robust_var(d[sel]))
         ws.append(sel.sum())
     xs, vs, ws = map(np.asarray, (xs, vs, ws))
     if len(xs) < 2 or np.ptp(xs) == 0:
-        return 0.0, float(vs.mean() / max(xs.mean(), 1e-12)) if len(xs) else 0.0
+        return robust_var(d), 0.0
     b, a = np.polyfit(xs, vs, 1, w=np.sqrt(ws))
-    if b <= 0:  # no visible sample-size effect: treat all spread as noise at the mean sample
-        return 0.0, float(np.average(vs, weights=ws) / np.average(xs, weights=ws))
+    if b <= 0:
+        return float(np.average(vs, weights=ws)), 0.0
     if a < 0:  # a line through the origin, refitted by weighted least squares
         a, b = 0.0, float((ws * xs * vs).sum() / (ws * xs * xs).sum())
     return float(a), float(b)

@@ -1,0 +1,60 @@
+"""Shared fixtures: the committed demo league, fitted once per session, and small tables."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "demo_seasons"
+
+
+@pytest.fixture(scope="session")
+def demo_truth():
+    return pd.read_csv(DEMO / "truth" / "truth.csv", dtype={"season": str})
+
+
+@pytest.fixture(scope="session")
+def demo_prepared():
+    from drift.api import prepare
+
+    return prepare(DEMO)
+
+
+@pytest.fixture(scope="session")
+def demo_model(demo_prepared):
+    from drift.api import fit_model
+
+    return fit_model(demo_prepared)
+
+
+@pytest.fixture(scope="session")
+def demo_analysis(demo_prepared, demo_model):
+    from drift.api import analyse
+
+    return analyse(demo_prepared, demo_model)
+
+
+def small_table(n_players=6, seasons=("2021-22", "2022-23"), seed=0):
+    """A tiny hand-sized season table with the standard columns and four features."""
+    rng = np.random.default_rng(seed)
+    rows = []
+    for s in seasons:
+        for i in range(n_players):
+            rows.append({"player_id": f"P{i}", "player": f"Player {i}", "season": s, "team": "AAA",
+                         "games": 60, "minutes": 1500, "share_spot_up": rng.uniform(0.1, 0.5),
+                         "ppp_spot_up": rng.uniform(0.8, 1.2), "usage_pct": rng.uniform(12, 30),
+                         "ts_pct": rng.uniform(0.5, 0.62)})
+    return pd.DataFrame(rows)
+
+
+@pytest.fixture
+def write_csv(tmp_path):
+    def _write(frame, name="2021-22.csv"):
+        path = tmp_path / name
+        frame.to_csv(path, index=False)
+        return path
+    return _write

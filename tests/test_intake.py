@@ -1,0 +1,154 @@
+"""Intake: every input shape, column mapping, feature detection and each bad input."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from drift.config import Config
+from drift.errors import InputError
+from drift.intake import read_seasons
+
+from conftest import small_table
+
+
+def test_folder_of_csv_season_from_file_name(tmp_path):
+    t = small_table()
+    for s, block in t.groupby("season"):
+        block.drop(columns="season").to_csv(tmp_path / f"{s}.csv", index=False)
+    (tmp_path / "notes.txt").write_text("ignored")
+    raw = read_seasons(tmp_path)
+    assert sorted(raw.table["season"].unique()) == ["2021-22", "2022-23"]
+    assert raw.features == ("share_spot_up", "ppp_spot_up", "usage_pct", "ts_pct")
+    assert len(raw.table) == len(t)
+
+
+def test_season_from_prefixed_file_name(tmp_path):
+    small_table(seasons=("2023-24",)).drop(columns="season").to_csv(tmp_path / "export_2023-24_final.csv", index=False)
+    assert set(read_seasons(tmp_path).table["season"]) == {"2023-24"}
+
+
+def test_long_file_with_season_column(write_csv):
+    path = write_csv(small_table(seasons=("2020", "2021", "2022")), "all.csv")
+    raw = read_seasons(path)
+    assert sorted(raw.table["season"].unique()) == ["2020", "2021", "2022"]
+
+
+def test_excel_and_parquet_read_like_csv(tmp_path):
+    t = small_table()
+    t.to_excel(tmp_path / "seasons.xlsx", index=False)
+    t.to_parquet(tmp_path / "seasons.parquet", index=False)
+    a = read_seasons(tmp_path / "seasons.xlsx").table
+    b = read_seasons(tmp_path / "seasons.parquet").table
+    for frame in (a, b):
+        assert len(frame) == len(t)
+        np.testing.assert_allclose(frame["usage_pct"].to_numpy(), t["usage_pct"].to_numpy())
+
+
+def test_config_maps_column_names_and_excludes(tmp_path, write_csv):
+    t = small_table().rename(columns={"player_id": "PID", "minutes": "MP", "games": "G"})
+    t["age"] = 25
+    t["position"] = "wing"
+    path = write_csv(t, "x.csv")
+    config = Config(columns={"player_id": "PID", "minutes": "MP", "games": "G"}, exclude=("age",))
+    raw = read_seasons(path, config)
+    assert "age" not in raw.features and "position" not in raw.features
+    assert raw.ignored_columns == ("position",)
+    assert raw.table["minutes"].iloc[0] == 1500
+
+
+def test_config_feature_list_is_used_exactly(write_csv):
+    path = write_csv(small_table(), "x.csv")
+    raw = read_seasons(path, Config(features=("usage_pct", "ts_pct")))
+    assert raw.features == ("usage_pct", "ts_pct")
+
+
+def test_empty_efficiency_stays_missing(write_csv):
+    t = small_table()
+    t.loc[2, "ppp_spot_up"] = np.nan
+    raw = read_seasons(write_csv(t, "x.csv"))
+    assert raw.table["ppp_spot_up"].isna().sum() == 1
+
+
+# ----------------------------------------------------------------- bad inputs
+def _error(path, config=None):
+    with pytest.raises(InputError) as info:
+        read_seasons(path, config)
+    return str(info.value)
+
+
+def test_missing_path(tmp_path):
+    assert "path not found" in _error(tmp_path / "nope")
+
+
+def test_missing_required_column_names_it_and_the_fix(write_csv):
+    msg = _error(write_csv(small_table().drop(columns="minutes"), "x.csv"))
+    assert "minutes" in msg and "[columns]" in msg
+
+
+def test_text_in_numeric_column_gives_file_row_column_value(write_csv):
+    t = small_table().astype({"usage_pct": object})
+    t.loc[3, "usage_pct"] = "n/a"
+    msg = _error(write_csv(t, "x.csv"))
+    assert "x.csv" in msg and "row 5" in msg and "usage_pct" in msg and "'n/a'" in msg
+
+
+def test_duplicate_player_season_team(write_csv):
+    t = small_table()
+    t = pd.concat([t, t.iloc[[0]]])
+    msg = _error(write_csv(t, "x.csv"))
+    assert "appears twice" in msg and "P0" in msg
+
+
+@pytest.mark.parametrize("column", ["games", "minutes"])
+def test_negative_games_or_minutes(write_csv, column):
+    t = small_table()
+    t.loc[1, column] = -3
+    msg = _error(write_csv(t, "x.csv"))
+    assert column in msg and "-3" in msg and ">= 0" in msg and "row 3" in msg
+
+
+def test_infinite_value(write_csv):
+    t = small_table()
+    t.loc[0, "ts_pct"] = np.inf
+    msg = _error(write_csv(t, "x.csv"))
+    assert "infinite" in msg and "ts_pct" in msg
+
+
+def test_empty_season_file(tmp_path):
+    small_table().to_csv(tmp_path / "2021-22.csv", index=False)
+    small_table().iloc[:0].to_csv(tmp_path / "2022-23.csv", index=False)
+    msg = _error(tmp_path)
+    assert "2022-23.csv" in msg and "no rows" in msg
+
+
+def test_zero_byte_file(tmp_path):
+    (tmp_path / "2021-22.csv").write_bytes(b"")
+    assert "empty" in _error(tmp_path)
+
+
+def test_season_lacking_a_feature_others_have(tmp_path):
+    t = small_table()
+    t[t.season == "2021-22"].to_csv(tmp_path / "2021-22.csv", index=False)
+    t[t.season == "2022-23"].drop(columns="ts_pct").to_csv(tmp_path / "2022-23.csv", index=False)
+    msg = _error(tmp_path)
+    assert "2022-23.csv" in msg and "ts_pct" in msg
+
+
+def test_unreadable_file(tmp_path):
+    (tmp_path / "2021-22.xlsx").write_bytes(b"this is not a spreadsheet")
+    assert "cannot read" in _error(tmp_path)
+
+
+def test_unsupported_suffix(tmp_path):
+    p = tmp_path / "s.json"
+    p.write_text("{}")
+    assert "unsupported" in _error(p)
+
+
+def test_inputs_are_never_modified(write_csv):
+    path = write_csv(small_table(), "x.csv")
+    before = path.read_bytes()
+    read_seasons(path)
+    assert path.read_bytes() == before

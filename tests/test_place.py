@@ -1,0 +1,44 @@
+"""Placement of full, partial and out-of-reference seasons."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+
+def test_placement_columns_and_probabilities(demo_model, demo_prepared):
+    placed = demo_model.place(demo_prepared.kept)
+    ids = demo_model.role_ids_
+    probs = placed[[f"prob_{r}" for r in ids]].to_numpy()
+    np.testing.assert_allclose(probs.sum(axis=1), 1.0)
+    dists = placed[[f"dist_{r}" for r in ids]].to_numpy()
+    nearest = np.asarray(ids)[dists.argmin(axis=1)]
+    assert (placed["role"].to_numpy() == nearest).all()
+    assert (placed["margin"] >= 0).all()
+    np.testing.assert_allclose(placed["distance"], dists.min(axis=1))
+    # the most probable role is the nearest one (equal-weight spherical roles)
+    assert (np.asarray(ids)[probs.argmax(axis=1)] == nearest).all()
+    # about 1% of the pool lies beyond its own 99th percentile
+    assert 0.003 < placed["out_of_reference"].mean() < 0.03
+
+
+def test_partial_season_places_near_its_full_season(demo_model, demo_prepared):
+    """A player's first 25 games are noisier, but mostly keep the full season's role."""
+    kept = demo_prepared.kept
+    regulars = kept[kept["minutes"] > 1800].copy()
+    partial = regulars.copy()
+    partial["games"] = 25
+    partial["minutes"] = partial["minutes"] * 25 / regulars["games"]
+    partial["possessions"] = partial["possessions"] * 25 / regulars["games"]
+    a = demo_model.place(regulars)["role"].to_numpy()
+    b = demo_model.place(partial)["role"].to_numpy()
+    assert (a == b).mean() > 0.95
+
+
+def test_extreme_season_is_out_of_reference(demo_model, demo_prepared):
+    row = demo_prepared.kept.iloc[[0]].copy()
+    row["usage_pct"] = 60.0
+    row["ast_pct"] = 80.0
+    row["orb_pct"] = 30.0
+    placed = demo_model.place(row)
+    assert bool(placed["out_of_reference"].iloc[0])

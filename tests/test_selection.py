@@ -1,0 +1,109 @@
+"""Component and role counts against bundled scikit-learn datasets and published methods."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from sklearn.datasets import load_breast_cancer, load_iris, load_wine, make_blobs
+from sklearn.decomposition import PCA
+from sklearn.preprocessing import StandardScaler
+
+from drift.selection import (choose_components, choose_roles, elbow_count, eigenvalues, gap_pick,
+                             gap_statistic, parallel_analysis, variance_count)
+
+
+def _std(loader):
+    return StandardScaler().fit_transform(loader().data)
+
+
+def test_correlation_eigenvalues_iris():
+    # source: shared/check-values.md, eigenvalues of iris' correlation matrix (computed)
+    np.testing.assert_allclose(eigenvalues(_std(load_iris)), [2.9185, 0.9140, 0.1468, 0.0207], atol=1e-4)
+
+
+def test_explained_variance_ratios_standardised_iris():
+    n, diag = choose_components(_std(load_iris), 2)
+    # source: R prcomp(iris[,1:4], scale.=TRUE) gives 0.7296, 0.2285, 0.0367, 0.0052 (from memory);
+    # scikit-learn 1.9.1 on bundled iris gives 0.729624, 0.228508, 0.036689, 0.005179
+    np.testing.assert_allclose(diag["explained_ratio"], [0.729624, 0.228508, 0.036689, 0.005179], atol=1e-5)
+    assert diag["cumulative"].iloc[1] == pytest.approx(0.958, abs=1e-3)
+
+
+def test_raw_iris_differs_so_standardising_matters():
+    raw = load_iris().data
+    # source: scikit-learn documentation, "Comparison of LDA and PCA 2D projection of Iris dataset"
+    ratios = PCA(2).fit(raw).explained_variance_ratio_
+    np.testing.assert_allclose(ratios, [0.92461872, 0.05306648], atol=1e-6)
+    _, diag = choose_components(raw, 2)
+    np.testing.assert_allclose(diag["explained_ratio"].iloc[:2], ratios, atol=1e-6)
+    _, std_diag = choose_components(_std(load_iris), 2)
+    assert std_diag["explained_ratio"].iloc[0] < 0.75
+
+
+@pytest.mark.parametrize("loader, at80, at90, at95, first", [
+    # source: shared/check-values.md (computed on bundled data; equals PCA(n_components=0.90))
+    (load_wine, 5, 8, 10, [0.361988, 0.192075, 0.111236, 0.070690, 0.065633]),
+    (load_breast_cancer, 5, 7, 10, [0.44272, 0.18971, 0.09393]),
+])
+def test_variance_thresholds_wine_and_breast_cancer(loader, at80, at90, at95, first):
+    z = _std(loader)
+    _, diag = choose_components(z, 1)
+    np.testing.assert_allclose(diag["explained_ratio"].iloc[:len(first)], first, atol=1e-5)
+    ratios = diag["explained_ratio"].to_numpy()
+    assert [variance_count(ratios, t) for t in (0.80, 0.90, 0.95)] == [at80, at90, at95]
+    assert PCA(n_components=0.90).fit(z).n_components_ == at90  # reference library agrees
+
+
+@pytest.mark.parametrize("loader, kept", [(load_iris, 1), (load_wine, 3), (load_breast_cancer, 5)])
+def test_parallel_analysis(loader, kept):
+    # Horn (1965), Psychometrika 30(2):179-185; a direct simulation with 1000 draws keeps 1 / 3 / 5
+    # (shared/check-values.md: our own computation, a regression check)
+    z = _std(loader)
+    assert parallel_analysis(z, n_draws=300)[0] == kept
+    assert parallel_analysis(z, n_draws=300, quantile=None)[0] == kept  # Horn's original mean rule
+
+
+def test_parallel_threshold_agrees_with_direct_simulation():
+    z = _std(load_wine)
+    _, thr = parallel_analysis(z, n_draws=400, quantile=None, seed=1)
+    rng = np.random.default_rng(99)
+    direct = np.mean([eigenvalues(StandardScaler().fit_transform(rng.standard_normal(z.shape)))
+                      for _ in range(400)], axis=0)
+    np.testing.assert_allclose(thr, direct, rtol=0.02)
+
+
+def test_kaiser_rule_counts():
+    # source: shared/check-values.md, Kaiser rule (eigenvalue > 1) keeps 1 / 3 / 6 (computed)
+    assert [int((eigenvalues(_std(l)) > 1).sum()) for l in (load_iris, load_wine, load_breast_cancer)] == [1, 3, 6]
+
+
+def test_elbow_is_the_knee_of_the_cumulative_curve():
+    ratios = np.array([0.5, 0.3, 0.05, 0.05, 0.05, 0.05])
+    assert elbow_count(ratios) == 2
+    assert elbow_count([0.7, 0.1, 0.1, 0.1]) == 1
+
+
+def test_gap_statistic_picks_four_blobs():
+    x, _ = make_blobs(300, centers=4, cluster_std=0.6, random_state=0)
+    ks = list(range(1, 9))
+    gap, s = gap_statistic(x, ks, n_refs=10)
+    # Tibshirani, Walther & Hastie (2001), JRSS B 63(2):411-423, 1-SE rule; 4 is our own computation
+    assert gap_pick(ks, gap, s) == 4
+
+
+def test_wine_roles_three_by_silhouette_and_calinski_harabasz():
+    z = _std(load_wine)
+    k, diag, stability = choose_roles(z, "auto", max_roles=8, n_boot=10)
+    row = diag.set_index("k").loc[3]
+    # source: shared/check-values.md, k-means k=3 on standardised wine (n_init=10, random_state=0)
+    assert row["silhouette"] == pytest.approx(0.2849, abs=1e-3)
+    assert row["calinski_harabasz"] == pytest.approx(70.94, abs=0.05)
+    assert diag.loc[diag["silhouette"].idxmax(), "k"] == 3
+    assert diag.loc[diag["calinski_harabasz"].idxmax(), "k"] == 3
+    assert k == 3 and stability[3].min() > 0.8
+
+
+def test_fixed_roles_skip_the_search():
+    z = _std(load_iris)
+    k, diag, _ = choose_roles(z, 4, n_boot=3)
+    assert k == 4 and list(diag["k"]) == [4]
