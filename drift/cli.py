@@ -75,7 +75,7 @@ def build_parser() -> argparse.ArgumentParser:
                      help="how small samples are handled (default shrink)")
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
-    run.add_argument("--alpha", type=float, help="level for 'beyond noise' (default 0.05)")
+    run.add_argument("--alpha", type=float, help="level for 'beyond noise' (default 0.01)")
     run.add_argument("--seed", type=int, help="random seed (default 0)")
 
     place = sub.add_parser("place", help="place season files with a saved model",

@@ -24,7 +24,7 @@ A config file has up to five tables; every key is optional::
     seed = 0
 
     [moves]
-    alpha = 0.05
+    alpha = 0.01
     compare = ["2021-22", "2024-25"]
 
     [roles.names]
@@ -73,7 +73,7 @@ class Config:
     max_roles: int = 10
     noise_policy: str = "shrink"
     seed: int = 0
-    alpha: float = 0.05
+    alpha: float = 0.01
     compare: tuple | None = None
     role_names: dict = field(default_factory=dict)
 

@@ -149,7 +149,9 @@ class RoleModel:
                                      _base(pool), shrink=shrink)
         self.scaler_mean_ = processed.mean(axis=0)
         scale = processed.std(axis=0)
-        self.scaler_scale_ = np.where(scale > 0, scale, 1.0)
+        # a feature shrunk flat (all noise) carries nothing: unit scale keeps it harmless
+        flat = scale <= 1e-9 * np.maximum(1.0, np.abs(self.scaler_mean_))
+        self.scaler_scale_ = np.where(flat, 1.0, scale)
         if self.noise_policy in ("weight", "shrink+weight"):
             r = self.noise_["year_to_year_r"].fillna(self.noise_["signal_share"]).to_numpy(float)
             self.weights_ = np.sqrt(np.clip(r, 0.05, 1.0))
@@ -180,7 +182,7 @@ class RoleModel:
         self.role_ids_ = [f"R{i + 1}" for i in range(k)]
         self.centroids_features_ = np.vstack(
             [processed[labels == r].mean(axis=0) for r in range(k)])
-        pool_sd = np.where(processed.std(axis=0) > 0, processed.std(axis=0), 1.0)
+        pool_sd = self.scaler_scale_
         self.role_descriptions_ = [
             describe_role(dict(zip(names, (c - processed.mean(axis=0)) / pool_sd)))
             for c in self.centroids_features_]

@@ -54,7 +54,7 @@ def stint_pairs(stints):
     return order[:-1][same], order[1:][same]
 
 
-def pair_moves(model, table, placements, first, second, *, alpha=0.05, n_drivers=3, kind="consecutive"):
+def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers=3, kind="consecutive"):
     """Moves between rows ``first[i]`` and ``second[i]`` of ``table``.
 
     Parameters

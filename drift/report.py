@@ -141,9 +141,9 @@ def _drivers(row, n=3):
     return "; ".join(parts)
 
 
-def _move_rows(moves, names, limit=40):
+def _move_rows(moves, names, limit=None):
     rows = []
-    for row in moves.head(limit).to_dict(orient="records"):
+    for row in (moves if limit is None else moves.head(limit)).to_dict(orient="records"):
         rows.append({
             "player": row["player"], "player_id": row["player_id"],
             "seasons": (f"{row['season_from']} → {row['season_to']}" if row["season_from"] != row["season_to"]
@@ -278,8 +278,8 @@ def build_context(analysis) -> ReportContext:
         moves_chart=Markup(charts.moves_chart(consecutive)),
         component_rule=component_rule, role_rule=role_rule,
         components_table=components_table, roles_table=roles_table,
-        changed=_move_rows(sel("changed"), names), unsettled=_move_rows(sel("unsettled"), names, 25),
-        shifted=_move_rows(sel("shifted"), names, 20), stint_moves=stint_rows,
+        changed=_move_rows(sel("changed"), names), unsettled=_move_rows(sel("unsettled"), names, 40),
+        shifted=_move_rows(sel("shifted"), names, 25), stint_moves=stint_rows,
         drift_headlines=list(drift_headlines(analysis.role_drift)["text"]),
         reliability=reliability, excluded_summary=excl,
         missing=missing.to_dict(orient="records"),

@@ -84,8 +84,9 @@ def drift_headlines(drift, *, n_per_role=1):
     first, last = seasons[0], seasons[-1]
     a = drift[drift["season"] == first].set_index(["role", "feature"])
     b = drift[drift["season"] == last].set_index(["role", "feature"])
-    both = a[["value", "change_sd"]].join(b[["value", "change_sd", "role_name"]],
-                                          lsuffix="_first", rsuffix="_last", how="inner")
+    both = a[["value", "change_sd"]].merge(b[["value", "change_sd", "role_name"]], how="inner",
+                                           left_index=True, right_index=True,
+                                           suffixes=("_first", "_last"))
     both["change"] = both["value_last"] - both["value_first"]
     # change_sd is (value - reference) / SD, so its difference is the change in SDs
     both["change_sd"] = both["change_sd_last"] - both["change_sd_first"]

@@ -1,0 +1,151 @@
+"""The command line end to end through main(argv)."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pandas as pd
+import pytest
+
+from drift.cli import main
+
+from conftest import DEMO, small_table
+
+OUTPUTS = {"report.html", "model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
+           "role_drift.csv", "comparables.csv", "features.csv"}
+
+
+@pytest.fixture(scope="module")
+def demo_run(tmp_path_factory):
+    out = tmp_path_factory.mktemp("run") / "report"
+    code = main(["run", str(DEMO), "--out", str(out), "--compare", "2019-20", "2024-25"])
+    return code, out
+
+
+def test_run_writes_every_output(demo_run, capsys):
+    code, out = demo_run
+    assert code == 0
+    assert OUTPUTS <= {p.name for p in out.iterdir()}
+    placements = pd.read_csv(out / "placements.csv")
+    assert {"player_id", "player", "season", "team", "games", "minutes", "role", "role_prob",
+            "margin", "out_of_reference"} <= set(placements.columns)
+    moves = pd.read_csv(out / "moves.csv")
+    assert {"player_id", "player", "season_from", "season_to", "team_from", "team_to", "role_from",
+            "role_to", "distance", "role_changed", "z", "p_value", "percentile", "status", "traded",
+            "driver_1", "driver_1_change", "driver_1_change_sd"} <= set(moves.columns)
+    assert set(moves["kind"]) == {"consecutive", "requested"}
+    excluded = pd.read_csv(out / "excluded.csv")
+    assert len(excluded) > 0 and excluded["reason"].notna().all()
+    assert json.loads((out / "model.json").read_text())["schema"] == "drift-role-model"
+
+
+def test_outputs_are_byte_identical_on_rerun(demo_run, tmp_path):
+    _, out = demo_run
+    again = tmp_path / "again"
+    assert main(["run", str(DEMO), "--out", str(again), "--compare", "2019-20", "2024-25"]) == 0
+    for name in OUTPUTS:
+        assert (again / name).read_bytes() == (out / name).read_bytes(), name
+
+
+def test_previous_model_carries_ids_and_writes_alignment(demo_run, tmp_path):
+    _, out = demo_run
+    new = tmp_path / "refit"
+    code = main(["run", str(DEMO), "--out", str(new), "--previous", str(out / "model.json"),
+                 "--reference", "2021-22", "2022-23", "2023-24", "2024-25"])
+    assert code == 0
+    al = pd.read_csv(new / "alignment.csv", keep_default_na=False)
+    assert {"previous_id", "new_id", "cost", "status"} <= set(al.columns)
+    assert (al["status"] == "kept").sum() >= 6
+
+
+def test_place_command(demo_run, tmp_path, capsys):
+    _, out = demo_run
+    target = tmp_path / "placed.csv"
+    code = main(["place", str(out / "model.json"), str(DEMO / "2024-25.csv"), "--out", str(target),
+                 "--min-games", "5"])
+    assert code == 0
+    placed = pd.read_csv(target)
+    assert set(placed["season"]) == {"2024-25"} and "role" in placed
+    assert "placed" in capsys.readouterr().out
+
+
+def test_fixed_roles_and_components(tmp_path):
+    out = tmp_path / "fixed"
+    assert main(["run", str(DEMO), "--out", str(out), "--roles", "5", "--components", "3",
+                 "--reference", "2023-24", "2024-25"]) == 0
+    model = json.loads((out / "model.json").read_text())
+    assert len(model["roles"]) == 5 and len(model["components"]) == 3
+
+
+def _fails(argv, capsys):
+    code = main(argv)
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err.startswith("drift: error: ") and len(err.strip().splitlines()) <= 2
+    assert "Traceback" not in err
+    return err
+
+
+def test_errors_are_one_line_exit_two(tmp_path, capsys):
+    err = _fails(["run", str(tmp_path / "missing"), "--out", str(tmp_path / "o")], capsys)
+    assert "path not found" in err
+    bad = tmp_path / "bad"
+    bad.mkdir()
+    t = small_table().astype({"games": object})
+    t.loc[0, "games"] = "many"
+    t.to_csv(bad / "2021-22.csv", index=False)
+    err = _fails(["run", str(bad), "--out", str(tmp_path / "o")], capsys)
+    assert "row 2" in err and "'games'" in err and "'many'" in err
+    assert not (tmp_path / "o").exists()  # nothing written on failure
+
+
+def test_broken_model_file(tmp_path, capsys):
+    model = tmp_path / "model.json"
+    model.write_text("{ nope")
+    err = _fails(["place", str(model), str(DEMO / "2024-25.csv"), "--out", str(tmp_path / "p.csv")], capsys)
+    assert "not valid JSON" in err
+
+
+def test_failed_run_leaves_previous_output_untouched(demo_run, tmp_path, capsys):
+    _, out = demo_run
+    before = (out / "model.json").read_bytes()
+    _fails(["run", str(DEMO), "--out", str(out), "--reference", "1999-00"], capsys)
+    assert (out / "model.json").read_bytes() == before
+    assert not [p for p in out.parent.iterdir() if p.name.startswith(".")]
+
+
+def test_refuses_to_replace_a_foreign_folder(tmp_path, capsys):
+    foreign = tmp_path / "mine"
+    foreign.mkdir()
+    (foreign / "thesis.docx").write_text("precious")
+    err = _fails(["run", str(DEMO), "--out", str(foreign), "--roles", "3", "--components", "2"], capsys)
+    assert "not a drift output" in err and (foreign / "thesis.docx").exists()
+
+
+def test_bad_config(tmp_path, capsys):
+    cfg = tmp_path / "c.toml"
+    cfg.write_text("[model]\nroles = 'many'\n")
+    err = _fails(["run", str(DEMO), "--out", str(tmp_path / "o"), "--config", str(cfg)], capsys)
+    assert "roles" in err
+
+
+def test_help_is_instant_and_imports_nothing_heavy():
+    code = ("import sys, drift.cli\n"
+            "try:\n    drift.cli.main(['--help'])\nexcept SystemExit:\n    pass\n"
+            "heavy = [m for m in ('pandas', 'numpy', 'sklearn', 'matplotlib', 'scipy') if m in sys.modules]\n"
+            "print(heavy)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip().splitlines()[-1] == "[]"
+
+
+def test_python_dash_m_works():
+    out = subprocess.run([sys.executable, "-m", "drift", "--version"], capture_output=True, text=True)
+    assert out.returncode == 0 and out.stdout.startswith("drift ")
+
+
+def test_demo_command_writes_a_league(tmp_path):
+    assert main(["demo", "--out", str(tmp_path / "league"), "--seed", "3"]) == 0
+    assert len(list((tmp_path / "league").glob("*.csv"))) == 6
+    assert (tmp_path / "league" / "truth" / "truth.csv").exists()
