@@ -130,7 +130,7 @@ def _observe(player, games, minutes, rng):
     fga = max(poss * 0.85, 1.0)
     ts, three, ftr = player.shoot
     shoot = (
-        ts + rng.normal(0, 0.55 / np.sqrt(fga)),
+        float(np.clip(ts + rng.normal(0, 0.55 / np.sqrt(fga)), 0.30, 0.85)),
         np.clip(three + rng.normal(0, np.sqrt(max(three * (1 - three), 0.01) / fga)), 0, 1),
         max(ftr + rng.normal(0, np.sqrt(0.35 / fga)), 0),
     )
@@ -161,7 +161,7 @@ def _minutes_for(tier, rng):
     return int(games), float(games * mpg)
 
 
-def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 19,
+def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 20,
                     change_rate: float = 0.06, trade_rate: float = 0.12,
                     midseason_rate: float = 0.04, between_rate: float = 0.15) -> DemoLeague:
     """Generate the fictional league.
