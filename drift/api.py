@@ -131,7 +131,9 @@ def fit_model(prepared: Prepared, config: Config | None = None):
                       noise_policy=config.noise_policy, seed=config.seed,
                       role_names=dict(config.role_names))
     try:
-        return model.fit(pool, features=prepared.features)
+        return model.fit(pool, features=prepared.features, intake={
+            "min_games": config.min_games, "min_minutes_per_game": config.min_minutes_per_game,
+            "min_stint_games": config.min_stint_games, "total_marker": config.total_marker})
     except ValueError as exc:
         raise InputError(str(exc)) from None
 
@@ -231,11 +233,14 @@ def run(data, out, config: Config | None = None, *, previous=None) -> Analysis:
     return analysis
 
 
-def place_files(model_path, files, out, config: Config | None = None):
+def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
+                min_minutes_per_game=None):
     """Place season files with a saved model and write one CSV.
 
-    The model's features must all be present. Filters come from ``config``
-    (pass lower ``min_games`` for a partial season).
+    The model's features must all be present, and no others. The filters are
+    the model's own (saved at fit time) unless ``min_games`` or
+    ``min_minutes_per_game`` are given (a partial season wants fewer games);
+    ``config`` supplies the column mapping.
 
     Returns
     -------
@@ -246,6 +251,12 @@ def place_files(model_path, files, out, config: Config | None = None):
     from .outputs import atomic_file
 
     model = RoleModel.load(model_path)
+    intake = model.intake_
+    config = (config or Config()).replace(
+        min_games=min_games if min_games is not None else intake["min_games"],
+        min_minutes_per_game=(min_minutes_per_game if min_minutes_per_game is not None
+                              else intake["min_minutes_per_game"]),
+        total_marker=intake.get("total_marker"))
     prepared = prepare(files, config)
     model.check_features(prepared.features)
     placements = model.place(prepared.kept)

@@ -49,9 +49,9 @@ def _roles(text: str):
 def _add_intake_options(p):
     p.add_argument("--config", metavar="TOML", help="config file (columns, filters, model settings)")
     p.add_argument("--min-games", type=int, metavar="N",
-                   help="fewest games for a season to be placed (default 20)")
+                   help="fewest games for a season to be placed (run: default 20; place: the model's)")
     p.add_argument("--min-minutes", type=float, metavar="MPG",
-                   help="fewest minutes per game (default 10)")
+                   help="fewest minutes per game (run: default 10; place: the model's)")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -96,8 +96,9 @@ def _config(args):
     from .config import load_config
 
     config = load_config(args.config)
-    changes = {"min_games": args.min_games, "min_minutes_per_game": args.min_minutes}
+    changes = {}
     if args.command == "run":
+        changes.update(min_games=args.min_games, min_minutes_per_game=args.min_minutes)
         changes.update(reference=tuple(args.reference) if args.reference else None,
                        roles=args.roles, components=args.components, noise_policy=args.noise_policy,
                        compare=tuple(args.compare) if args.compare else None, alpha=args.alpha,
@@ -118,7 +119,8 @@ def _run(args):
 def _place(args):
     from .api import place_files
 
-    placements = place_files(args.model, args.files, args.out, _config(args))
+    placements = place_files(args.model, args.files, args.out, _config(args),
+                             min_games=args.min_games, min_minutes_per_game=args.min_minutes)
     print(f"drift: placed {len(placements)} player-seasons; wrote {args.out}")
 
 

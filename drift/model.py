@@ -18,6 +18,13 @@ __all__ = ["RoleModel", "NoiseState", "SCHEMA_VERSION"]
 
 SCHEMA_VERSION = 1
 _FITTED = "centroids_"
+_DEFAULT_INTAKE = {
+    "min_games": 20, "min_minutes_per_game": 10.0, "total_marker": "TOT",
+    "shares_missing": "not used: 0",
+    "efficiency_missing": "no sample: pool mean",
+    "other_missing": "pool mean",
+    "stint_rule": "games, minutes, possessions summed; features averaged with sample weights",
+}
 
 
 @dataclass(frozen=True)
@@ -65,6 +72,8 @@ class RoleModel:
     Attributes
     ----------
     features_ : tuple of str, length p
+    intake_ : dict
+        Filters and missing-value rules the pool went through.
     noise_ : DataFrame, one row per feature (see :func:`drift.noise.fit_noise`)
     weights_ : ndarray of shape (p,)
     scaler_mean_, scaler_scale_ : ndarray of shape (p,)
@@ -106,7 +115,7 @@ class RoleModel:
         self.role_names = role_names
 
     # ------------------------------------------------------------------ fitting
-    def fit(self, pool, *, features=None):
+    def fit(self, pool, *, features=None, intake=None):
         """Fit on the pool's qualifying season rows.
 
         Parameters
@@ -117,6 +126,9 @@ class RoleModel:
             shares already set to 0 (:func:`drift.features.fill_unused_shares`).
         features : sequence of str, optional
             Feature columns in order; default every column the intake found.
+        intake : dict, optional
+            The intake policy the pool went through (filters, total marker),
+            saved with the model so placement applies the same rules.
 
         Returns
         -------
@@ -143,6 +155,7 @@ class RoleModel:
         exposure = exposure_matrix(pool, spec)
         self.features_ = names
         self.families_ = spec.families
+        self.intake_ = {**_DEFAULT_INTAKE, **(intake or {})}
         self.noise_ = fit_noise(pool, spec, exposure)
         shrink = self.noise_policy in ("shrink", "shrink+weight")
         processed, _ = self._process(pool[list(names)].to_numpy(float), exposure,
@@ -182,12 +195,13 @@ class RoleModel:
         self.role_ids_ = [f"R{i + 1}" for i in range(k)]
         self.centroids_features_ = np.vstack(
             [processed[labels == r].mean(axis=0) for r in range(k)])
-        pool_sd = self.scaler_scale_
+        raw_sd = self.noise_["sd"].to_numpy(float)
+        raw_sd = np.where(raw_sd > 0, raw_sd, 1.0)
         self.role_descriptions_ = [
-            describe_role(dict(zip(names, (c - processed.mean(axis=0)) / pool_sd)))
+            describe_role(dict(zip(names, (c - self.noise_["mean"].to_numpy(float)) / raw_sd)))
             for c in self.centroids_features_]
         given = self.role_names or {}
-        self.role_names_ = [given.get(rid, desc.split(",")[0]) for rid, desc in
+        self.role_names_ = [given.get(rid, ", ".join(desc.split(", ")[:2])) for rid, desc in
                             zip(self.role_ids_, self.role_descriptions_)]
         self.role_sizes_ = np.bincount(labels, minlength=k).tolist()
         d = np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
@@ -389,6 +403,7 @@ class RoleModel:
                          "n_init": self.n_init, "n_bootstrap": self.n_bootstrap,
                          "role_names": dict(self.role_names or {})},
             "features": list(self.features_), "families": list(self.families_),
+            "intake": dict(self.intake_),
             "noise": {c: v.tolist() for c, v in self.noise_.reset_index().items()},
             "weights": arr(self.weights_), "scaler_mean": arr(self.scaler_mean_),
             "scaler_scale": arr(self.scaler_scale_), "pca_mean": arr(self.pca_mean_),
@@ -430,6 +445,7 @@ class RoleModel:
             p = len(data["features"])
             model.features_ = tuple(data["features"])
             model.families_ = tuple(data["families"])
+            model.intake_ = dict(data["intake"])
             noise = pd.DataFrame(data["noise"]).set_index("feature")
             model.noise_ = noise
             for col in model.noise_.columns:

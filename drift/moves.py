@@ -132,16 +132,24 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
         [differs & out["beyond_noise"], differs, out["beyond_noise"]],
         ["changed", "unsettled", "shifted"], default="steady")
     out["role_changed"] = out["status"] == "changed"
-    # drivers: change of each processed feature in pool SDs, weighted as the model weights it
+    # drivers: each feature's share of the distance, i.e. its contribution to the move
+    # projected on the move's direction (the contributions add up to the distance)
     change = processed[second] - processed[first]
-    change_sd = change / model.scaler_scale_
-    rank = np.argsort(-np.abs(change_sd * model.weights_), axis=1, kind="stable")[:, :n_drivers]
+    load = model.components_ * (model.weights_ / model.scaler_scale_)  # (q, p)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        direction = np.where(distance[:, None] > 0, delta / distance[:, None], 0.0)
+    contribution = (direction @ load) * change  # (m, p)
+    raw_sd = model.noise_["sd"].to_numpy(float)
+    change_sd = change / np.where(raw_sd > 0, raw_sd, 1.0)
+    rank = np.argsort(-contribution, axis=1, kind="stable")[:, :n_drivers]
     feats = np.asarray(model.features_)
-    rows = np.arange(len(first))[:, None]
+    rows = np.arange(len(first))
     for n in range(min(n_drivers, len(feats))):
-        out[f"driver_{n + 1}"] = feats[rank[:, n]] if len(first) else []
-        out[f"driver_{n + 1}_change"] = change[rows[:, 0], rank[:, n]] if len(first) else []
-        out[f"driver_{n + 1}_change_sd"] = change_sd[rows[:, 0], rank[:, n]] if len(first) else []
+        col = rank[:, n] if len(first) else np.zeros(0, int)
+        out[f"driver_{n + 1}"] = feats[col]
+        out[f"driver_{n + 1}_change"] = change[rows, col]
+        out[f"driver_{n + 1}_change_sd"] = change_sd[rows, col]
+        out[f"driver_{n + 1}_share"] = contribution[rows, col] / np.where(distance > 0, distance, 1.0)
     for j in range(q):
         out[f"move_pc{j + 1}"] = delta[:, j]
     return out
@@ -167,13 +175,17 @@ def comparables(model, placements, pool_placements, *, n=5):
     nn = NearestNeighbors(n_neighbors=k).fit(pool[pcs].to_numpy())
     dist, idx = nn.kneighbors(placements[pcs].to_numpy())
     pool_ids = pool["player_id"].to_numpy()
-    records = []
-    for i, row in enumerate(placements.itertuples(index=False)):
-        keep = pool_ids[idx[i]] != row.player_id
-        for rank, (j, d) in enumerate(zip(idx[i][keep][:n], dist[i][keep][:n]), start=1):
-            c = pool.iloc[j]
-            records.append({"player_id": row.player_id, "player": row.player, "season": row.season,
-                            "rank": rank, "comp_player_id": c["player_id"], "comp_player": c["player"],
-                            "comp_season": c["season"], "comp_team": c["team"], "comp_role": c["role"],
-                            "distance": float(d)})
-    return pd.DataFrame(records)
+    own = placements["player_id"].to_numpy()
+    other = pool_ids[idx] != own[:, None]
+    # first n neighbours that are other players: rank among the kept columns
+    rank = np.cumsum(other, axis=1)
+    take = other & (rank <= n)
+    rows, cols = np.nonzero(take)
+    j = idx[rows, cols]
+    return pd.DataFrame({
+        "player_id": own[rows], "player": placements["player"].to_numpy()[rows],
+        "season": placements["season"].to_numpy()[rows], "rank": rank[rows, cols],
+        "comp_player_id": pool_ids[j], "comp_player": pool["player"].to_numpy()[j],
+        "comp_season": pool["season"].to_numpy()[j], "comp_team": pool["team"].to_numpy()[j],
+        "comp_role": pool["role"].to_numpy()[j], "distance": dist[rows, cols],
+    })

@@ -137,7 +137,7 @@ def _drivers(row, n=3):
         if not isinstance(name, str):
             continue
         parts.append(f"{feature_label(name)} {row[f'driver_{i}_change']:+.3g} "
-                     f"({row[f'driver_{i}_change_sd']:+.1f} SD)")
+                     f"({row[f'driver_{i}_change_sd']:+.1f} SD, {row[f'driver_{i}_share']:.0%} of the move)")
     return "; ".join(parts)
 
 
@@ -185,7 +185,8 @@ def build_context(analysis) -> ReportContext:
     pool_mask = placements["season"].isin(model.reference_seasons_)
     consecutive = moves[moves["kind"] == "consecutive"] if len(moves) else moves
     noise = model.noise_
-    mean, sd = model.scaler_mean_, model.scaler_scale_
+    mean = noise["mean"].to_numpy(float)
+    sd = np.where(noise["sd"].to_numpy(float) > 0, noise["sd"].to_numpy(float), 1.0)
 
     roles = []
     for r, rid in enumerate(model.role_ids_):
