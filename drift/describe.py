@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-__all__ = ["feature_label", "describe_role"]
+__all__ = ["feature_label", "describe_role", "name_role"]
 
 _PLAY_LABELS = {
     "isolation": "isolation", "pnr_handler": "pick-and-roll ball handler", "roll_man": "roll man",
@@ -46,3 +46,16 @@ def describe_role(z_by_feature, *, n: int = 3) -> str:
     """
     ranked = sorted(z_by_feature.items(), key=lambda kv: (-abs(kv[1]), kv[0]))[:n]
     return ", ".join(_phrase(name, z) for name, z in ranked)
+
+
+def name_role(z_by_feature, *, n: int = 2) -> str:
+    """A short name from the ``n`` features the role is most *above* the pool on.
+
+    What a role does a lot of names it better than what it rarely does; when
+    fewer than ``n`` features are above the pool, the largest deficits fill in.
+    """
+    ranked = sorted(z_by_feature.items(), key=lambda kv: (-kv[1], kv[0]))
+    chosen = [kv for kv in ranked if kv[1] > 0][:n]
+    if len(chosen) < n:
+        chosen += sorted(z_by_feature.items(), key=lambda kv: (kv[1], kv[0]))[: n - len(chosen)]
+    return ", ".join(_phrase(name, z) for name, z in chosen)

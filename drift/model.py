@@ -139,7 +139,7 @@ class RoleModel:
         import numpy as np
         from sklearn.cluster import KMeans
 
-        from .describe import describe_role
+        from .describe import describe_role, name_role
         from .features import exposure_matrix, feature_spec
         from .noise import fit_noise
         from .selection import STABLE_JACCARD, choose_components, choose_roles
@@ -197,12 +197,11 @@ class RoleModel:
             [processed[labels == r].mean(axis=0) for r in range(k)])
         raw_sd = self.noise_["sd"].to_numpy(float)
         raw_sd = np.where(raw_sd > 0, raw_sd, 1.0)
-        self.role_descriptions_ = [
-            describe_role(dict(zip(names, (c - self.noise_["mean"].to_numpy(float)) / raw_sd)))
-            for c in self.centroids_features_]
+        z_roles = [dict(zip(names, (c - self.noise_["mean"].to_numpy(float)) / raw_sd))
+                   for c in self.centroids_features_]
+        self.role_descriptions_ = [describe_role(z) for z in z_roles]
         given = self.role_names or {}
-        self.role_names_ = [given.get(rid, ", ".join(desc.split(", ")[:2])) for rid, desc in
-                            zip(self.role_ids_, self.role_descriptions_)]
+        self.role_names_ = [given.get(rid, name_role(z)) for rid, z in zip(self.role_ids_, z_roles)]
         self.role_sizes_ = np.bincount(labels, minlength=k).tolist()
         d = np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
         self.distance_q99_ = float(np.quantile(d.min(axis=1), 0.99))
