@@ -113,13 +113,12 @@ def template_environment():
 
     import jinja2
 
-    try:
-        from importlib.resources import files
-
-        folder = files("drift.templates")
-        loader = jinja2.FileSystemLoader(str(folder))
-    except (ModuleNotFoundError, TypeError):  # pragma: no cover - source checkout without install
-        loader = jinja2.FileSystemLoader(str(Path(__file__).resolve().parent.parent / "templates"))
+    here = Path(__file__).resolve().parent
+    # installed: drift/templates (package data); source checkout: the top-level templates/
+    folder = next((f for f in (here / "templates", here.parent / "templates") if f.is_dir()), None)
+    if folder is None:  # pragma: no cover - a broken install
+        raise FileNotFoundError(f"drift's templates are missing (looked in {here / 'templates'}); reinstall drift")
+    loader = jinja2.FileSystemLoader(str(folder))
     env = jinja2.Environment(loader=loader, autoescape=True, undefined=jinja2.StrictUndefined,
                              trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=2: "" if v is None or v != v else f"{v:,.{d}f}"
@@ -262,7 +261,8 @@ def build_context(analysis) -> ReportContext:
         ("reference pool", f"{model.n_pool_:,} player-seasons, {len(model.reference_seasons_)} seasons"),
         ("components / roles", f"{q} / {k}"),
         ("season-to-season moves", f"{len(consecutive):,}"),
-        ("role changes beyond noise", f"{n_changed:,}"),
+        ("label flips between seasons", f"{n_changed + n_unsettled:,}"),
+        ("of which role changes beyond noise", f"{n_changed:,}"),
         ("unsettled (label flip within noise)", f"{n_unsettled:,}"),
         ("mid-season trade stint pairs", f"{len(stints):,}"),
     ]

@@ -96,3 +96,19 @@ def test_refit_on_shifted_pool_keeps_roles(demo_prepared):
     print(f"refit on a shifted pool: {same:.1%} of shared player-seasons keep their role id")
     assert (al.table["status"] == "kept").sum() == len(first.role_ids_)
     assert same >= 0.90
+
+
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+
+@settings(max_examples=40, deadline=None)
+@given(k=st.integers(2, 7), seed=st.integers(0, 10_000))
+def test_property_permutation_is_undone(k, seed):
+    rng = np.random.default_rng(seed)
+    base = rng.normal(0, 4, (k, 6))
+    perm = rng.permutation(k)
+    new = base[perm] + rng.normal(0, 0.01, base.shape)
+    al = align_models(_fake_model(base), _fake_model(new))
+    for j in range(k):
+        assert al.ids[f"R{j + 1}"] == f"R{perm[j] + 1}"

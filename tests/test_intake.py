@@ -152,3 +152,27 @@ def test_inputs_are_never_modified(write_csv):
     before = path.read_bytes()
     read_seasons(path)
     assert path.read_bytes() == before
+
+
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+_CELLS = st.one_of(st.just(""), st.just("abc"), st.just("-1"), st.just("inf"), st.just("1e309"),
+                   st.just("NaN"), st.just(" 12 "), st.text(max_size=6), st.floats(allow_nan=True).map(str))
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(row=st.integers(0, 11), column=st.sampled_from(["player_id", "team", "games", "minutes", "usage_pct",
+                                                        "ts_pct", "share_spot_up"]), value=_CELLS)
+def test_fuzzed_cells_either_read_or_fail_cleanly(tmp_path, row, column, value):
+    t = small_table().astype(str)
+    t.loc[row, column] = value
+    path = tmp_path / "fuzz.csv"
+    t.to_csv(path, index=False)
+    try:
+        raw = read_seasons(path)
+    except InputError as exc:
+        assert "fuzz.csv" in str(exc)
+    else:
+        assert np.isfinite(raw.table[["games", "minutes"]].to_numpy()).all()
+        assert (raw.table[["games", "minutes"]].to_numpy() >= 0).all()
