@@ -113,8 +113,13 @@ class _Player:
         self._restyle(rng)
 
 
-def _observe(player, games, minutes, rng):
-    """Box line of one stint drawn from the player's truth."""
+#: league-wide trend in three-point rate per season, and the extra for spot-up wings
+THREE_RATE_TREND = 0.008
+SPOT_UP_EXTRA_TREND = 0.012
+
+
+def _observe(player, games, minutes, rng, season_index=0):
+    """Box line of one stint drawn from the player's truth (plus the league's three-point trend)."""
     import numpy as np
 
     usage = player.rates[0]
@@ -129,6 +134,8 @@ def _observe(player, games, minutes, rng):
     rates = np.clip(player.rates + rng.normal(0, _RATE_NOISE) * scale, 0, None)
     fga = max(poss * 0.85, 1.0)
     ts, three, ftr = player.shoot
+    trend = THREE_RATE_TREND + (SPOT_UP_EXTRA_TREND if player.role == "spot_up_wing" else 0.0)
+    three = float(np.clip(three + trend * season_index, 0, 0.95))
     shoot = (
         float(np.clip(ts + rng.normal(0, 0.55 / np.sqrt(fga)), 0.30, 0.85)),
         np.clip(three + rng.normal(0, np.sqrt(max(three * (1 - three), 0.01) / fga)), 0, 1),
@@ -238,7 +245,7 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
                     midseason.append((t, p, tier))
                     continue
                 rows.append({"player_id": p.pid, "player": p.name, "team": t, "season": season,
-                             **_observe(p, games, minutes, rng)})
+                             **_observe(p, games, minutes, rng, s_index)})
                 truth.append({"player_id": p.pid, "season": season, "team": t, "stint": 0,
                               "true_role": p.role, "changed": changed, "between": p.between,
                               "changed_midseason": False})
@@ -254,7 +261,7 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
                     p.change_role(rng)
                 g = max(int(round(games * frac)), 1)
                 rows.append({"player_id": p.pid, "player": p.name, "team": team, "season": season,
-                             **_observe(p, g, minutes * frac, rng)})
+                             **_observe(p, g, minutes * frac, rng, s_index)})
                 truth.append({"player_id": p.pid, "season": season, "team": team, "stint": stint,
                               "true_role": p.role, "changed": changed if stint == 1 else p.role != first_role,
                               "between": p.between, "changed_midseason": p.role != first_role})

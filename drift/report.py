@@ -57,7 +57,10 @@ class ReportContext:
         Per-count diagnostics, formatted.
     changed, unsettled, shifted, stint_moves : list of dict
         Move rows formatted for the tables (player, seasons, teams, roles, distance,
-        noise, z, percentile, drivers).
+        noise, z, percentile, drivers), strongest evidence first.
+    shown : int
+        How many rows of each move table are shown open; the rest sit in a
+        collapsed block below it.
     drift_headlines : list of str
     reliability : list of dict
         Per feature: label, family, r, signal_share, weight, missing.
@@ -105,6 +108,7 @@ class ReportContext:
     alignment: list | None
     noise_note: str
     alpha: float
+    shown: int = 25
 
 
 def template_environment():
@@ -279,8 +283,8 @@ def build_context(analysis) -> ReportContext:
         moves_chart=Markup(charts.moves_chart(consecutive)),
         component_rule=component_rule, role_rule=role_rule,
         components_table=components_table, roles_table=roles_table,
-        changed=_move_rows(sel("changed"), names), unsettled=_move_rows(sel("unsettled"), names, 40),
-        shifted=_move_rows(sel("shifted"), names, 25), stint_moves=stint_rows,
+        changed=_move_rows(sel("changed"), names), unsettled=_move_rows(sel("unsettled"), names),
+        shifted=_move_rows(sel("shifted"), names), stint_moves=stint_rows,
         drift_headlines=list(drift_headlines(analysis.role_drift)["text"]),
         reliability=reliability, excluded_summary=excl,
         missing=missing.to_dict(orient="records"),

@@ -24,7 +24,8 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     Returns
     -------
     DataFrame (long): season, role, role_name, n_players, match_cost, feature,
-    value, reference_value, change (value - reference_value), change_sd (in pool SDs),
+    value, reference_value, change (value - reference_value), change_sd (in the pool's
+    observed SDs of the feature),
     change_from_first (value minus the role's value in the first season listed).
     """
     import numpy as np
@@ -59,7 +60,8 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     out = pd.DataFrame(records, columns=["season", "role", "role_name", "n_players", "match_cost",
                                          "feature", "value", "reference_value"])
     out["change"] = out["value"] - out["reference_value"]
-    sd = pd.Series(model.scaler_scale_, index=list(model.features_))
+    raw_sd = model.noise_["sd"].astype(float)
+    sd = raw_sd.where(raw_sd > 0, 1.0)
     out["change_sd"] = out["change"] / out["feature"].map(sd)
     first = out.groupby(["role", "feature"])["value"].transform("first")
     out["change_from_first"] = out["value"] - first
