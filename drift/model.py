@@ -95,6 +95,9 @@ class RoleModel:
         (a, b): the move noise model's covariance is multiplied by a + b x, x being
         1/m1 + 1/m2 of the two samples over its pool median ``calibration_sample_``;
         fitted on the pool's returning players ((1, 0) = as modelled).
+    calibration_sample_ : float
+    calibration_range_ : list of two floats
+        The range of x seen in the pool; x is clipped to it.
     component_diagnostics_, role_diagnostics_ : DataFrame
     reference_seasons_ : list of str
     n_pool_ : int
@@ -208,7 +211,7 @@ class RoleModel:
         self.reference_seasons_ = sorted(map(str, pool["season"].unique()))
         self.n_pool_ = int(len(pool))
         self.fingerprint_ = _fingerprint(pool, names)
-        self.noise_calibration_ = self._calibrate_noise(pool, scores, exposure)
+        self._calibrate_noise(pool, scores, exposure)
         weak = [rid for rid, s in zip(self.role_ids_, self.role_stability_) if s < STABLE_JACCARD]
         if weak:
             warnings.warn(f"role(s) {weak} do not reproduce on resamples "
@@ -242,28 +245,35 @@ class RoleModel:
         return processed, NoiseState(v, factor, np.nan_to_num(u), base)
 
     def _calibrate_noise(self, pool, scores, exposure):
+        """Fit the move-noise calibration a + b x on the pool's returning players.
+
+        Sets ``noise_calibration_`` (a, b), ``calibration_sample_`` (the pool's median
+        1/m1 + 1/m2) and ``calibration_range_`` (the x range seen; x is clipped to it,
+        so the line is never extrapolated).
+        """
         import numpy as np
         from scipy.stats import chi2
 
         from .noise import consecutive_pairs
 
+        self.noise_calibration_, self.calibration_sample_ = [1.0, 0.0], 1.0
+        self.calibration_range_ = [0.0, 1e12]  # no pool pairs: no clipping
         i1, i2 = consecutive_pairs(pool)
-        self.noise_calibration_ = [1.0, 0.0]
-        self.calibration_sample_ = 1.0
         if len(i1) < 30:
-            return [1.0, 0.0]
+            return
         _, nv = self._process(pool[list(self.features_)].to_numpy(float), exposure, _base(pool),
                               shrink=self.noise_policy in ("shrink", "shrink+weight"))
-        self.noise_calibration_ = [1.0, 0.0]
-        self.calibration_sample_ = float(np.median(1 / nv.base[i1] + 1 / nv.base[i2]))
+        raw_x = 1 / nv.base[i1] + 1 / nv.base[i2]
+        median = float(np.median(raw_x))
+        x = raw_x / median
         d2 = self.move_statistic(scores[i2] - scores[i1], nv.take(i1), nv.take(i2))
-        x = (1 / nv.base[i1] + 1 / nv.base[i2]) / self.calibration_sample_
         q = scores.shape[1]
+        null_median = chi2.ppf(0.5 * 0.999, q)  # median of the null truncated at its 99.9th pct.
         keep = np.ones(len(d2), bool)
         a, b = 1.0, 0.0
         for _ in range(5):
-            # bins of sample size; in each, the scale that puts the median on the
-            # null's (truncated) median, then a line through the bins
+            # in bins of sample size, the scale that puts the median on the null's median;
+            # then a line through the bins; clear movers (beyond 99.9%) are left out
             edges = np.quantile(x[keep], np.linspace(0, 1, 6))
             which = np.clip(np.searchsorted(edges, x, side="right") - 1, 0, 4)
             xs, cs, ws = [], [], []
@@ -271,16 +281,16 @@ class RoleModel:
                 sel = keep & (which == bin_)
                 if sel.sum() >= 10:
                     xs.append(x[sel].mean())
-                    cs.append(np.median(d2[sel]) / chi2.ppf(0.5 * 0.999, q))
+                    cs.append(np.median(d2[sel]) / null_median)
                     ws.append(sel.sum())
-            if len(xs) >= 2 and np.ptp(xs) > 0:
-                b, a = np.polyfit(xs, cs, 1, w=np.sqrt(ws))
-            else:
-                a, b = float(np.median(d2) / chi2.ppf(0.5, q)), 0.0
-            if a <= 0 or a + b * x.min() <= 0:
-                a, b = float(np.median(d2[keep]) / chi2.ppf(0.5 * 0.999, q)), 0.0
+            b, a = (np.polyfit(xs, cs, 1, w=np.sqrt(ws)) if len(xs) >= 2 and np.ptp(xs) > 0
+                    else (0.0, float(np.median(d2[keep]) / null_median)))
+            if min(a + b * x.min(), a + b * x.max()) <= 0:
+                a, b = float(np.median(d2[keep]) / null_median), 0.0
             keep = d2 / (a + b * x) <= chi2.ppf(0.999, q)
-        return [float(a), float(b)]
+        self.noise_calibration_ = [float(a), float(b)]
+        self.calibration_sample_ = median
+        self.calibration_range_ = [float(x.min()), float(x.max())]
 
     # ------------------------------------------------------------------ using
     def _check_fitted(self):
@@ -363,6 +373,7 @@ class RoleModel:
             cov = cov + self.score_noise_cov(u ** 2) - lu[:, :, None] * lu[:, None, :]
         a, b = self.noise_calibration_
         x = (1 / noise_from.base + 1 / noise_to.base) / self.calibration_sample_
+        x = np.clip(x, *self.calibration_range_)
         return (a + b * x)[:, None, None] * cov
 
     def move_statistic(self, delta, noise_from, noise_to):
@@ -417,6 +428,7 @@ class RoleModel:
             "within_var": self.within_var_, "distance_q99": self.distance_q99_,
             "noise_calibration": list(self.noise_calibration_),
             "calibration_sample": self.calibration_sample_,
+            "calibration_range": list(self.calibration_range_),
             "component_diagnostics": _records(self.component_diagnostics_),
             "role_diagnostics": _records(self.role_diagnostics_),
             "reference_seasons": list(self.reference_seasons_), "n_pool": self.n_pool_,
@@ -469,6 +481,7 @@ class RoleModel:
             model.distance_q99_ = float(data["distance_q99"])
             model.noise_calibration_ = [float(v) for v in data["noise_calibration"]]
             model.calibration_sample_ = float(data["calibration_sample"])
+            model.calibration_range_ = [float(v) for v in data["calibration_range"]]
             model.component_diagnostics_ = pd.DataFrame(data["component_diagnostics"])
             model.role_diagnostics_ = pd.DataFrame(data["role_diagnostics"])
             model.reference_seasons_ = list(data["reference_seasons"])

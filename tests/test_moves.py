@@ -125,3 +125,17 @@ def test_comparables_are_five_nearest_other_players(demo_analysis):
     assert (counts == 5).all()
     assert (comps["player_id"] != comps["comp_player_id"]).all()
     assert comps.groupby(["player_id", "season"])["distance"].apply(lambda d: d.is_monotonic_increasing).all()
+
+
+def test_stint_moves_against_truth(demo_analysis, demo_truth):
+    """Mid-season trades in the demo: 30% change role at the trade (known truth)."""
+    t = demo_truth[demo_truth["stint"] > 0][["player_id", "season", "stint", "true_role"]]
+    st = demo_analysis.stints.rename(columns={"season_from": "season"})
+    x = st.merge(t.rename(columns={"stint": "stint_from", "true_role": "a"}), on=["player_id", "season", "stint_from"])
+    x = x.merge(t.rename(columns={"stint": "stint_to", "true_role": "b"}), on=["player_id", "season", "stint_to"])
+    real = x["a"] != x["b"]
+    tp = (real & x["role_changed"]).sum()
+    print(f"demo stints: {len(x)} trade pairs, {real.sum()} real role changes, flagged {x['role_changed'].sum()}, "
+          f"correct {tp}")
+    assert real.sum() >= 10
+    assert tp / real.sum() >= 0.85 and tp / max(x["role_changed"].sum(), 1) >= 0.9
