@@ -242,10 +242,12 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     ``min_minutes_per_game`` are given (a partial season wants fewer games);
     ``config`` supplies the column mapping.
 
+    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``.
+
     Returns
     -------
     DataFrame
-        The placements written.
+        The placements written; ``.attrs["excluded"]`` holds the excluded rows.
     """
     from .model import RoleModel
     from .outputs import atomic_file
@@ -260,6 +262,12 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     prepared = prepare(files, config)
     model.check_features(prepared.features)
     placements = model.place(prepared.kept)
+    out = Path(out)
+    excluded_path = out.with_name(f"{out.stem}_excluded.csv")
     with atomic_file(out) as tmp:
         placements.to_csv(tmp, index=False)
+    if len(prepared.excluded):
+        with atomic_file(excluded_path) as tmp:
+            prepared.excluded.to_csv(tmp, index=False)
+    placements.attrs["excluded"] = prepared.excluded
     return placements

@@ -121,7 +121,15 @@ def _place(args):
 
     placements = place_files(args.model, args.files, args.out, _config(args),
                              min_games=args.min_games, min_minutes_per_game=args.min_minutes)
-    print(f"drift: placed {len(placements)} player-seasons; wrote {args.out}")
+    excluded = placements.attrs.get("excluded")
+    note = ""
+    if excluded is not None and len(excluded):
+        from pathlib import Path
+
+        out = Path(args.out)
+        note = (f"; {len(excluded)} excluded by the filters, listed in "
+                f"{out.with_name(out.stem + '_excluded.csv')}")
+    print(f"drift: placed {len(placements)} player-seasons; wrote {args.out}{note}")
 
 
 def _demo(args):

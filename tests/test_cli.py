@@ -69,6 +69,11 @@ def test_place_command(demo_run, tmp_path, capsys):
     placed = pd.read_csv(target)
     assert set(placed["season"]) == {"2024-25"} and "role" in placed
     assert "placed" in capsys.readouterr().out
+    # with the model's own filters (20 games), short seasons are listed beside the output
+    assert main(["place", str(out / "model.json"), str(DEMO / "2024-25.csv"), "--out", str(target)]) == 0
+    excluded = pd.read_csv(tmp_path / "placed_excluded.csv")
+    assert len(excluded) > 0 and excluded["reason"].str.contains("min_games 20").any()
+    assert "excluded by the filters" in capsys.readouterr().out
 
 
 def test_fixed_roles_and_components(tmp_path):
