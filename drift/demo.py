@@ -210,6 +210,7 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
 
     rosters = {t: [new_player() for _ in range(roster)] for t in teams}
     rows, truth = [], []
+    last_team = {}  # player -> team he ended the previous season with
     for s_index, season in enumerate(seasons):
         if s_index > 0:
             # departures, then off-season trades, then rookies fill the gaps

@@ -140,7 +140,6 @@ class RoleModel:
         import warnings
 
         import numpy as np
-        from sklearn.cluster import KMeans
 
         from .describe import describe_role, name_role
         from .features import exposure_matrix, feature_spec
@@ -186,13 +185,12 @@ class RoleModel:
         self.explained_variance_ratio_ = (ev / ev.sum())[:q]
         scores = (z - self.pca_mean_) @ self.components_.T
 
-        k, self.role_diagnostics_, stability = choose_roles(
-            scores, self.roles, max_roles=self.max_roles, seed=self.seed,
-            n_init=self.n_init, n_boot=self.n_bootstrap)
-        km = KMeans(n_clusters=k, n_init=self.n_init, random_state=self.seed).fit(scores)
+        choice = choose_roles(scores, self.roles, max_roles=self.max_roles, seed=self.seed,
+                              n_init=self.n_init, n_boot=self.n_bootstrap)
+        k, km, self.role_diagnostics_ = choice.k, choice.kmeans, choice.diagnostics
         order = np.argsort(-km.cluster_centers_[:, 0], kind="stable")
         self.centroids_ = km.cluster_centers_[order]
-        self.role_stability_ = stability[k][order]
+        self.role_stability_ = choice.stability[order]
         labels = np.argsort(order)[km.labels_]
         self.within_var_ = float(km.inertia_ / (len(scores) * q))
         self.role_ids_ = [f"R{i + 1}" for i in range(k)]
@@ -220,7 +218,7 @@ class RoleModel:
         return self
 
     def _process(self, values, exposure, base, *, shrink):
-        """Processed features (shrunk or mean-filled) and their noise variance, both (n, p)."""
+        """Processed features (shrunk or mean-filled), shape (n, p), and their :class:`NoiseState`."""
         import numpy as np
 
         from .noise import level_term
@@ -300,7 +298,6 @@ class RoleModel:
                 "seasons, or load a saved model with RoleModel.load(path).")
 
     def _matrix(self, table):
-        import numpy as np
 
         from .features import exposure_matrix, feature_spec
 

@@ -32,15 +32,12 @@ def consecutive_season_pairs(seasons):
 
 def requested_pairs(seasons, season_a: str, season_b: str):
     """Row positions of players qualifying in both requested seasons."""
-    import numpy as np
 
-    a = seasons.index[seasons["season"] == season_a]
-    b = seasons.index[seasons["season"] == season_b]
-    left = seasons.loc[a, ["player_id"]].reset_index().rename(columns={"index": "i"})
-    right = seasons.loc[b, ["player_id"]].reset_index().rename(columns={"index": "j"})
-    both = left.merge(right, on="player_id")
-    pos = {ix: n for n, ix in enumerate(seasons.index)}
-    return (np.array([pos[i] for i in both["i"]], int), np.array([pos[j] for j in both["j"]], int))
+    s = seasons.reset_index(drop=True)
+    a = s.loc[s["season"] == season_a, ["player_id"]].reset_index(names="i")
+    b = s.loc[s["season"] == season_b, ["player_id"]].reset_index(names="j")
+    both = a.merge(b, on="player_id")
+    return both["i"].to_numpy(int), both["j"].to_numpy(int)
 
 
 def stint_pairs(stints):
@@ -119,7 +116,10 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     out["role_from"], out["role_to"] = role_from, role_to
     out["prob_from"] = pl["role_prob"].to_numpy()[first]
     out["prob_to"] = pl["role_prob"].to_numpy()[second]
-    out["prob_to_of_role_from"] = [pl.at[j, f"prob_{r}"] for j, r in zip(second, role_from)]
+    prob = pl[[f"prob_{r}" for r in model.role_ids_]].to_numpy()
+    role_col = {r: j for j, r in enumerate(model.role_ids_)}
+    from_col = np.array([role_col[r] for r in role_from], int)
+    out["prob_to_of_role_from"] = prob[second, from_col] if len(first) else []
     out["distance"] = distance
     out["noise_distance"] = np.sqrt(np.trace(cov, axis1=1, axis2=2)) if len(first) else np.zeros(0)
     out["z"] = z

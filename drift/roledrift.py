@@ -93,7 +93,7 @@ def drift_headlines(drift, *, n_per_role=1):
     # change_sd is (value - reference) / SD, so its difference is the change in SDs
     both["change_sd"] = both["change_sd_last"] - both["change_sd_first"]
     rows = []
-    for role, group in both.groupby(level="role"):
+    for _, group in both.groupby(level="role"):
         top = group.reindex(group["change_sd"].abs().sort_values(ascending=False).index).head(n_per_role)
         for (r, feat), row in top.iterrows():
             direction = "up" if row["change"] > 0 else "down"

@@ -26,7 +26,10 @@ two or more of them agree on, else the median of the three.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 __all__ = [
+    "RoleChoice",
     "eigenvalues", "parallel_analysis", "elbow_count", "variance_count", "choose_components",
     "gap_statistic", "gap_pick", "bootstrap_stability", "choose_roles", "STABLE_JACCARD",
 ]
@@ -207,9 +210,29 @@ def bootstrap_stability(x, labels, centers, *, n_boot: int = 20, seed: int = 0, 
     return jac.mean(axis=0)
 
 
+@dataclass(frozen=True)
+class RoleChoice:
+    """The decision: ``k``, per-k ``diagnostics``, per-role ``stability`` (k,) and the fitted ``kmeans``."""
+
+    k: int
+    diagnostics: object
+    stability: object
+    kmeans: object
+
+
 def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 10,
-                 n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000):
-    """Pick the number of roles; returns (k, per-k diagnostics DataFrame, stability by k)."""
+                 n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000) -> RoleChoice:
+    """Pick the number of roles (``rule`` = "auto") or take a fixed one (an int).
+
+    Parameters
+    ----------
+    x : array of shape (n, q)
+        Component scores of the pool.
+
+    Returns
+    -------
+    RoleChoice
+    """
     import numpy as np
     import pandas as pd
     from sklearn.metrics import calinski_harabasz_score, silhouette_score
@@ -219,9 +242,9 @@ def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 1
         ks = [rule]
     else:
         ks = list(range(2, int(min(max_roles, len(x) - 1)) + 1))
-    rows, stability = [], {}
+    rows, stability, fits = [], {}, {}
     for k in ks:
-        km = _kmeans(x, k, seed=seed, n_init=n_init)
+        km = fits[k] = _kmeans(x, k, seed=seed, n_init=n_init)
         labels = km.labels_
         row = {"k": k, "inertia": km.inertia_}
         if k >= 2 and len(set(labels)) > 1:
@@ -243,7 +266,7 @@ def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 1
     if isinstance(rule, int):
         diag["eligible"] = True
         diag["chosen"] = True
-        return rule, diag, stability
+        return RoleChoice(rule, diag, stability[rule], fits[rule])
     eligible = diag["stability_min"] >= STABLE_JACCARD
     if not eligible.any():
         eligible = diag["stability_min"] == diag["stability_min"].max()
@@ -263,4 +286,4 @@ def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 1
     diag["pick_calinski_harabasz"] = diag["k"] == ch_k
     diag["pick_gap"] = diag["k"] == gap_k
     diag["chosen"] = diag["k"] == k
-    return k, diag, stability
+    return RoleChoice(k, diag, stability[k], fits[k])

@@ -6,7 +6,6 @@ import itertools
 import types
 
 import numpy as np
-import pandas as pd
 import pytest
 
 from drift.align import align_models, match_centroids, relabel

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from drift.config import Config, load_config
+from drift.config import load_config
 from drift.errors import ConfigError
 
 

@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
-import pytest
 
 from drift.demo import ARCHETYPES, PLAY_TYPES, generate_league, write_league
 

@@ -2,11 +2,9 @@
 
 from __future__ import annotations
 
-import os
 import re
 
 import pandas as pd
-import pytest
 
 from drift.cli import build_parser
 

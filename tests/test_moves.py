@@ -3,11 +3,10 @@
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 import pytest
 from sklearn.metrics import roc_auc_score
 
-from drift.moves import consecutive_season_pairs, pair_moves, requested_pairs, stint_pairs
+from drift.moves import consecutive_season_pairs, pair_moves, requested_pairs
 
 
 def _with_truth(moves, truth):

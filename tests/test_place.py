@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 
 
 def test_placement_columns_and_probabilities(demo_model, demo_prepared):

@@ -93,17 +93,18 @@ def test_gap_statistic_picks_four_blobs():
 
 def test_wine_roles_three_by_silhouette_and_calinski_harabasz():
     z = _std(load_wine)
-    k, diag, stability = choose_roles(z, "auto", max_roles=8, n_boot=10)
+    choice = choose_roles(z, "auto", max_roles=8, n_boot=10)
+    k, diag = choice.k, choice.diagnostics
     row = diag.set_index("k").loc[3]
     # source: shared/check-values.md, k-means k=3 on standardised wine (n_init=10, random_state=0)
     assert row["silhouette"] == pytest.approx(0.2849, abs=1e-3)
     assert row["calinski_harabasz"] == pytest.approx(70.94, abs=0.05)
     assert diag.loc[diag["silhouette"].idxmax(), "k"] == 3
     assert diag.loc[diag["calinski_harabasz"].idxmax(), "k"] == 3
-    assert k == 3 and stability[3].min() > 0.8
+    assert k == 3 and choice.stability.min() > 0.8 and len(choice.kmeans.cluster_centers_) == 3
 
 
 def test_fixed_roles_skip_the_search():
     z = _std(load_iris)
-    k, diag, _ = choose_roles(z, 4, n_boot=3)
-    assert k == 4 and list(diag["k"]) == [4]
+    choice = choose_roles(z, 4, n_boot=3)
+    assert choice.k == 4 and list(choice.diagnostics["k"]) == [4]
