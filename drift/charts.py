@@ -7,7 +7,7 @@ deterministic (fixed hash salt, no date metadata) so a re-run gives the same byt
 from __future__ import annotations
 
 __all__ = ["components_chart", "roles_chart", "role_map_chart", "drift_chart", "moves_chart",
-           "ROLE_COLOURS"]
+           "reliability_chart", "ROLE_COLOURS"]
 
 #: drift's own role palette: muted, distinguishable, readable on white
 ROLE_COLOURS = ("#2f6b9a", "#c0622f", "#4f8a3c", "#8e4c8f", "#b59a2a", "#3f8f8a", "#a8435a",
@@ -152,4 +152,25 @@ def moves_chart(moves) -> str:
     ax.set_xlabel("distance expected from noise alone (RMS)")
     ax.set_ylabel("distance moved")
     ax.legend(frameon=False, fontsize=8)
+    return _svg(fig)
+
+
+def reliability_chart(noise, weights) -> str:
+    """Per feature: year-to-year correlation and the share of spread that is signal."""
+    import numpy as np
+
+    from .describe import feature_label
+
+    labels = [feature_label(f) for f in noise.index]
+    y = np.arange(len(labels))
+    fig, axes = _figure(width=7.0, height=0.22 * len(labels) + 0.9)
+    ax = axes[0, 0]
+    ax.barh(y - 0.2, noise["year_to_year_r"].fillna(0).clip(lower=0), height=0.4, color="#2f6b9a",
+            label="year-to-year correlation (returning players)")
+    ax.barh(y + 0.2, noise["signal_share"], height=0.4, color="#c0622f",
+            label="signal share at the median sample")
+    ax.set_yticks(y, labels, fontsize=7)
+    ax.invert_yaxis()
+    ax.set_xlim(0, 1)
+    ax.legend(frameon=False, fontsize=7, loc="lower right")
     return _svg(fig)

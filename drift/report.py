@@ -55,9 +55,15 @@ class ReportContext:
         How the counts were chosen, in a sentence.
     components_table, roles_table : list of dict
         Per-count diagnostics, formatted.
-    changed, unsettled, shifted, stint_moves : list of dict
+    changed, unsettled, shifted, stint_moves, requested : list of dict
         Move rows formatted for the tables (player, seasons, teams, roles, distance,
-        noise, z, percentile, drivers), strongest evidence first.
+        noise, z, percentile, drivers, and the three nearest reference player-seasons of
+        other players to the later placement), strongest evidence first. ``requested``
+        holds the moves of ``--compare A B`` (empty without it).
+    requested_label : str
+        "A → B" of the requested comparison, or "".
+    reliability_chart : Markup
+        SVG of each feature's year-to-year correlation and signal share.
     shown : int
         How many rows of each move table are shown open; the rest sit in a
         collapsed block below it.
@@ -98,6 +104,9 @@ class ReportContext:
     unsettled: list
     shifted: list
     stint_moves: list
+    requested: list
+    requested_label: str
+    reliability_chart: object
     drift_headlines: list
     reliability: list
     excluded_summary: list
@@ -144,7 +153,17 @@ def _drivers(row, n=3):
     return "; ".join(parts)
 
 
-def _move_rows(moves, names, limit=None):
+def _comparable_text(comparables, n=3):
+    """(player_id, season) -> "Name (season), ..." of the nearest other players."""
+    if comparables is None or comparables.empty:
+        return {}
+    top = comparables[comparables["rank"] <= n]
+    text = top["comp_player"].astype(str) + " (" + top["comp_season"].astype(str) + ")"
+    return text.groupby([top["player_id"], top["season"]]).agg(", ".join).to_dict()
+
+
+def _move_rows(moves, names, limit=None, comps=None):
+    comps = comps or {}
     rows = []
     for row in (moves if limit is None else moves.head(limit)).to_dict(orient="records"):
         rows.append({
@@ -158,6 +177,7 @@ def _move_rows(moves, names, limit=None):
             "distance": row["distance"], "noise": row["noise_distance"], "z": row["z"],
             "percentile": row["percentile"], "minutes": f"{row['minutes_from']:.0f} / {row['minutes_to']:.0f}",
             "drivers": _drivers(row),
+            "comparables": comps.get((row["player_id"], row["season_to"]), ""),
         })
     return rows
 
@@ -237,6 +257,12 @@ def build_context(analysis) -> ReportContext:
         m = consecutive[consecutive["status"] == status] if len(consecutive) else consecutive
         return m.sort_values("p_value", kind="stable") if len(m) else m
 
+    comps = _comparable_text(analysis.comparables)
+    requested = moves[moves["kind"] == "requested"] if len(moves) else moves
+    requested_label = (f"{config.compare[0]} → {config.compare[1]}" if config.compare else "")
+    requested_rows = _move_rows(requested.sort_values("p_value", kind="stable"), names, comps=comps) \
+        if len(requested) else []
+
     stints = analysis.stints
     stint_rows = _move_rows(stints.sort_values("p_value", kind="stable"), names) if len(stints) else []
     excluded = prepared.excluded
@@ -283,8 +309,11 @@ def build_context(analysis) -> ReportContext:
         moves_chart=Markup(charts.moves_chart(consecutive)),
         component_rule=component_rule, role_rule=role_rule,
         components_table=components_table, roles_table=roles_table,
-        changed=_move_rows(sel("changed"), names), unsettled=_move_rows(sel("unsettled"), names),
-        shifted=_move_rows(sel("shifted"), names), stint_moves=stint_rows,
+        changed=_move_rows(sel("changed"), names, comps=comps),
+        unsettled=_move_rows(sel("unsettled"), names, comps=comps),
+        shifted=_move_rows(sel("shifted"), names, comps=comps), stint_moves=stint_rows,
+        requested=requested_rows, requested_label=requested_label,
+        reliability_chart=Markup(charts.reliability_chart(noise, model.weights_)),
         drift_headlines=list(drift_headlines(analysis.role_drift)["text"]),
         reliability=reliability, excluded_summary=excl,
         missing=missing.to_dict(orient="records"),

@@ -91,3 +91,17 @@ def test_templates_found_from_any_folder(tmp_path):
     code = "from drift.report import template_environment as t; t().get_template('report.html'); print('ok')"
     out = subprocess.run([sys.executable, "-c", code], cwd=tmp_path, capture_output=True, text=True)
     assert out.returncode == 0, out.stderr
+
+
+def test_requested_comparison_and_comparables_shown(demo_prepared, demo_model):
+    from drift.api import analyse
+    from drift.config import Config
+
+    analysis = analyse(demo_prepared, demo_model, Config(compare=("2019-20", "2024-25")))
+    context = build_context(analysis)
+    assert context.requested_label == "2019-20 → 2024-25" and len(context.requested) > 50
+    page = _Page()
+    page.feed(render_report(context))
+    assert "requested" in page.ids
+    row = context.changed[0]
+    assert row["comparables"].count("(") == 3  # three nearest reference player-seasons
