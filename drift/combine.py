@@ -81,9 +81,10 @@ def combine_stints(raw, spec: FeatureSpec, *, total_marker=None):
                      ("team", "team_first", "team_last", "n_stints")]
         combined.loc[with_total, keep_cols] = totals.loc[with_total, keep_cols].to_numpy()
     single = parts[counts == 1].set_index(["player_id", "season"])
+    single = single[~single.index.isin(totals.index)]  # a total row outranks a lone part of it
     single = single.assign(team_first=single["team"], team_last=single["team"], n_stints=1)
-    # a total row whose stints are missing from the file is a plain season row
-    orphan_totals = totals.index.difference(combined.index).difference(single.index)
+    # a total row without two stints in the file is the season row itself
+    orphan_totals = totals.index.difference(combined.index)
     orphans = totals.loc[orphan_totals].assign(team_first=lambda d: d["team"],
                                                team_last=lambda d: d["team"], n_stints=1)
     seasons = pd.concat([single, combined, orphans])
