@@ -89,6 +89,15 @@ def prepare(data, config: Config | None = None) -> Prepared:
     seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
     seasons, filled = fill_unused_shares(seasons, spec)
     missing = _missing_table(seasons, spec, filled)
+    filled_with_mean = missing[(missing["family"].isin(["rate", "shooting"])) & (missing["missing"] > 0)]
+    if len(filled_with_mean):
+        import warnings
+
+        from .errors import DataQualityWarning
+
+        listed = ", ".join(f"{f} ({n})" for f, n in zip(filled_with_mean["feature"], filled_with_mean["missing"]))
+        warnings.warn(f"missing values set to the pool mean: {listed}; check the export if these should "
+                      "have values", DataQualityWarning, stacklevel=2)
     kept, excluded = apply_filters(seasons, min_games=config.min_games,
                                    min_minutes_per_game=config.min_minutes_per_game)
     stints, _ = fill_unused_shares(stints, spec)

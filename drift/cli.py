@@ -143,14 +143,26 @@ def main(argv=None) -> int:
     """Entry point; returns the exit code (0 ok, 2 a drift error)."""
     from .errors import DriftError
 
+    import warnings
+
+    from .errors import DriftWarning
+
     parser = build_parser()
     args = parser.parse_args(argv)
-    try:
-        {"run": _run, "place": _place, "demo": _demo}[args.command](args)
-    except DriftError as exc:
-        message = " ".join(str(exc).split("\n")[:2])
-        print(f"drift: error: {message}", file=sys.stderr)
-        return 2
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", DriftWarning)
+        try:
+            {"run": _run, "place": _place, "demo": _demo}[args.command](args)
+        except DriftError as exc:
+            message = " ".join(str(exc).split("\n")[:2])
+            print(f"drift: error: {message}", file=sys.stderr)
+            return 2
+        finally:
+            for w in caught:
+                if issubclass(w.category, DriftWarning):
+                    print(f"drift: warning: {w.message}", file=sys.stderr)
+                else:
+                    warnings.showwarning(w.message, w.category, w.filename, w.lineno)
     return 0
 
 

@@ -154,3 +154,15 @@ def test_demo_command_writes_a_league(tmp_path):
     assert main(["demo", "--out", str(tmp_path / "league"), "--seed", "3"]) == 0
     assert len(list((tmp_path / "league").glob("*.csv"))) == 6
     assert (tmp_path / "league" / "truth" / "truth.csv").exists()
+
+
+def test_data_quality_warning_is_one_line(tmp_path, capsys):
+    import numpy as np
+
+    t = small_table(n_players=30, seasons=("2021-22", "2022-23", "2023-24"))
+    t.loc[3, "usage_pct"] = np.nan
+    t.to_csv(tmp_path / "all.csv", index=False)
+    assert main(["run", str(tmp_path / "all.csv"), "--out", str(tmp_path / "o"), "--roles", "2",
+                 "--components", "2"]) == 0
+    err = capsys.readouterr().err
+    assert "drift: warning: missing values set to the pool mean: usage_pct (1)" in err

@@ -1,0 +1,35 @@
+"""The public API: exported names resolve lazily, and run() does the whole job."""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+
+import drift
+
+
+def test_exported_names_resolve():
+    for name in drift.__all__:
+        assert getattr(drift, name) is not None, name
+
+
+def test_import_is_light():
+    code = "import sys, drift; print([m for m in ('pandas', 'numpy', 'sklearn') if m in sys.modules])"
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "[]"
+
+
+def test_errors_share_one_base():
+    for name in ("InputError", "ConfigError", "ModelFileError", "NotFittedError"):
+        assert issubclass(getattr(drift, name), drift.DriftError)
+    for name in ("DataQualityWarning", "ModelQualityWarning"):
+        assert issubclass(getattr(drift, name), drift.DriftWarning)
+
+
+def test_run_returns_the_analysis_and_writes(tmp_path):
+    from conftest import DEMO
+
+    analysis = drift.run(DEMO, tmp_path / "out", drift.Config(roles=4, components=3,
+                                                             reference=("2023-24", "2024-25")))
+    assert (tmp_path / "out" / "report.html").exists()
+    assert len(analysis.model.role_ids_) == 4 and len(analysis.placements) > 1500
