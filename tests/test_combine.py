@@ -23,6 +23,11 @@ def _traded():
     return t
 
 
+_TOTAL = {"player_id": "T1", "player": "Traded One", "season": "2022-23", "team": "TOT", "games": 70,
+          "minutes": 2000, "share_spot_up": 0.31, "ppp_spot_up": 1.01, "usage_pct": 22.0,
+          "source_file": "x.csv", "source_row": 9}
+
+
 def test_stints_kept_and_season_combined_by_minutes():
     spec = feature_spec(("share_spot_up", "ppp_spot_up", "usage_pct"))
     seasons, stints = combine_stints(_traded(), spec)
@@ -40,10 +45,7 @@ def test_stints_kept_and_season_combined_by_minutes():
 
 def test_total_row_is_used_and_minutes_are_not_counted_twice():
     t = _traded()
-    total = {"player_id": "T1", "player": "Traded One", "season": "2022-23", "team": "TOT", "games": 70,
-             "minutes": 2000, "share_spot_up": 0.31, "ppp_spot_up": 1.01, "usage_pct": 22.0,
-             "source_file": "x.csv", "source_row": 9}
-    t = pd.concat([t, pd.DataFrame([total])], ignore_index=True)
+    t = pd.concat([t, pd.DataFrame([_TOTAL])], ignore_index=True)
     seasons, stints = combine_stints(t, feature_spec(("share_spot_up", "ppp_spot_up", "usage_pct")),
                                      total_marker="TOT")
     row = seasons.set_index("player_id").loc["T1"]
@@ -69,10 +71,7 @@ def test_unused_play_type_in_one_stint():
 
 def test_total_row_wins_over_a_lone_stint():
     t = _traded().iloc[[1, 2]]  # only the second stint of the traded player is in the file
-    total = {"player_id": "T1", "player": "Traded One", "season": "2022-23", "team": "TOT", "games": 70,
-             "minutes": 2000, "share_spot_up": 0.31, "ppp_spot_up": 1.01, "usage_pct": 22.0,
-             "source_file": "x.csv", "source_row": 9}
-    t = pd.concat([t, pd.DataFrame([total])], ignore_index=True)
+    t = pd.concat([t, pd.DataFrame([_TOTAL])], ignore_index=True)
     seasons, stints = combine_stints(t, feature_spec(("share_spot_up", "ppp_spot_up", "usage_pct")),
                                      total_marker="TOT")
     assert len(seasons) == 2 and stints.empty
