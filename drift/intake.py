@@ -124,14 +124,16 @@ def _standardise(frame, path: Path, config: Config):
     missing = [c for c in REQUIRED_COLUMNS if c not in frame.columns]
     if missing:
         hint = ", ".join(f'{m} = "..."' for m in missing)
+        found = ", ".join(list(frame.columns)[:12]) + (", ..." if len(frame.columns) > 12 else "")
         raise InputError(
-            f"missing required column(s) {missing}; found {list(frame.columns)[:12]}... "
+            f"missing required column(s) {missing}; found {found}. "
             f"Rename them or map them in the config's [columns] table ({hint})", file=path)
     if frame.empty:
         raise InputError("file has a header but no rows; remove it or add its season's rows", file=path)
     for column in ("player_id", "season", "team", "player"):
         if column in frame.columns:
             text = frame[column].astype("string").str.strip()
+            text = text.mask(text == "")
             if column != "player" and text.isna().any():
                 i = int(text.isna().to_numpy().argmax())
                 raise InputError("value is empty; every row needs one", file=path, row=i + 2, column=column)

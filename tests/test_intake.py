@@ -94,6 +94,13 @@ def test_text_in_numeric_column_gives_file_row_column_value(write_csv):
     assert "x.csv" in msg and "row 5" in msg and "usage_pct" in msg and "'n/a'" in msg
 
 
+def test_blank_player_id(write_csv):
+    t = small_table().astype({"player_id": object})
+    t.loc[2, "player_id"] = "   "
+    msg = _error(write_csv(t, "x.csv"))
+    assert "row 4" in msg and "player_id" in msg and "empty" in msg
+
+
 def test_duplicate_player_season_team(write_csv):
     t = small_table()
     t = pd.concat([t, t.iloc[[0]]])
