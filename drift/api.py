@@ -162,7 +162,9 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
         if extra in kept.columns:
             placements[extra] = kept[extra].to_numpy()
     i1, i2 = consecutive_season_pairs(kept)
-    moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive")]
+    kept_processed = model.processed(kept)  # shared by every season-pair measurement below
+    moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
+                        processed=kept_processed)]
     if config.compare:
         a, b = config.compare
         seasons = set(kept["season"])
@@ -170,7 +172,8 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
             if s not in seasons:
                 raise InputError(f"--compare season {s!r} is not in the data; available: {sorted(seasons)}")
         j1, j2 = requested_pairs(kept, a, b)
-        moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested"))
+        moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested",
+                                processed=kept_processed))
     moves = pd.concat(moves, ignore_index=True)
     stints = prepared.stints
     if len(stints):

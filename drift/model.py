@@ -117,6 +117,10 @@ class RoleModel:
         self.n_bootstrap = n_bootstrap
         self.role_names = role_names
 
+    @property
+    def _shrinks(self) -> bool:
+        return self.noise_policy in ("shrink", "shrink+weight")
+
     # ------------------------------------------------------------------ fitting
     def fit(self, pool, *, features=None, intake=None):
         """Fit on the pool's qualifying season rows.
@@ -159,9 +163,8 @@ class RoleModel:
         self.families_ = spec.families
         self.intake_ = {**_DEFAULT_INTAKE, **(intake or {})}
         self.noise_ = fit_noise(pool, spec, exposure)
-        shrink = self.noise_policy in ("shrink", "shrink+weight")
         processed, _ = self._process(pool[list(names)].to_numpy(float), exposure,
-                                     _base(pool), shrink=shrink)
+                                     _base(pool), shrink=self._shrinks)
         self.scaler_mean_ = processed.mean(axis=0)
         scale = processed.std(axis=0)
         # a feature shrunk flat (all noise) carries nothing: unit scale keeps it harmless
@@ -204,8 +207,7 @@ class RoleModel:
         given = self.role_names or {}
         self.role_names_ = [given.get(rid, name_role(z)) for rid, z in zip(self.role_ids_, z_roles)]
         self.role_sizes_ = np.bincount(labels, minlength=k).tolist()
-        d = np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
-        self.distance_q99_ = float(np.quantile(d.min(axis=1), 0.99))
+        self.distance_q99_ = float(np.quantile(self.distances(scores).min(axis=1), 0.99))
         self.reference_seasons_ = sorted(map(str, pool["season"].unique()))
         self.n_pool_ = int(len(pool))
         self.fingerprint_ = _fingerprint(pool, names)
@@ -260,7 +262,7 @@ class RoleModel:
         if len(i1) < 30:
             return
         _, nv = self._process(pool[list(self.features_)].to_numpy(float), exposure, _base(pool),
-                              shrink=self.noise_policy in ("shrink", "shrink+weight"))
+                              shrink=self._shrinks)
         raw_x = 1 / nv.base[i1] + 1 / nv.base[i2]
         median = float(np.median(raw_x))
         x = raw_x / median
@@ -313,7 +315,7 @@ class RoleModel:
         """Processed feature values, shape (n, p), and their :class:`NoiseState`."""
         self._check_fitted()
         values, exposure = self._matrix(table)
-        return self._process(values, exposure, _base(table), shrink=self.noise_policy in ("shrink", "shrink+weight"))
+        return self._process(values, exposure, _base(table), shrink=self._shrinks)
 
     def scores_from_processed(self, processed):
         """Component scores, shape (n, q), of processed feature values of shape (n, p)."""

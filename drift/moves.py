@@ -51,7 +51,8 @@ def stint_pairs(stints):
     return order[:-1][same], order[1:][same]
 
 
-def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers=3, kind="consecutive"):
+def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers=3, kind="consecutive",
+               processed=None):
     """Moves between rows ``first[i]`` and ``second[i]`` of ``table``.
 
     Parameters
@@ -68,6 +69,8 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
         Features reported as driving each move.
     kind : str
         Written to the ``kind`` column.
+    processed : tuple, optional
+        ``model.processed(table)`` when the caller already has it (saves redoing it).
 
     Returns
     -------
@@ -78,7 +81,7 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     from scipy.stats import chi2, norm
 
     table = table.reset_index(drop=True)
-    processed, noise_var = model.processed(table)
+    processed, noise_var = processed if processed is not None else model.processed(table)
     scores = model.scores_from_processed(processed)
     q = scores.shape[1]
     delta = scores[second] - scores[first]
