@@ -7,6 +7,12 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pytest
+from threadpoolctl import threadpool_limits
+
+# Many tiny K-means and linear-algebra calls: one math-library thread each is
+# faster than an OpenMP region per call, and it cannot be slowed to a crawl by
+# other work on a busy 2-core machine.
+_THREADS = threadpool_limits(limits=1)
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_seasons"
