@@ -16,26 +16,39 @@ _STATUS_COLOURS = {"changed": "#a8435a", "unsettled": "#b59a2a", "shifted": "#2f
                    "steady": "#b8b8b8"}
 
 
+#: matplotlib settings for drift's charts, applied only inside ``rc_context`` while a chart is
+#: drawn and saved, so a caller's own backend and style are never touched.
+STYLE = {"svg.hashsalt": "drift", "font.size": 9, "axes.spines.top": False,
+         "axes.spines.right": False, "svg.fonttype": "none"}
+
+
+def _styled(draw):
+    """Run a chart function inside drift's local ``rc_context`` (never the global rcParams)."""
+    import functools
+
+    @functools.wraps(draw)
+    def wrapper(*args, **kwargs):
+        import matplotlib
+
+        with matplotlib.rc_context(STYLE):
+            return draw(*args, **kwargs)
+    return wrapper
+
+
 def _figure(width=7.0, height=3.2, ncols=1, nrows=1):
-    import matplotlib
+    # a bare Figure: no pyplot, so no backend is chosen and no global figure list is kept
+    from matplotlib.figure import Figure
 
-    matplotlib.use("Agg", force=True)
-    import matplotlib.pyplot as plt
-
-    plt.rcParams.update({"svg.hashsalt": "drift", "font.size": 9, "axes.spines.top": False,
-                         "axes.spines.right": False, "svg.fonttype": "none"})
-    return plt.subplots(nrows, ncols, figsize=(width, height), squeeze=False)
+    fig = Figure(figsize=(width, height))
+    return fig, fig.subplots(nrows, ncols, squeeze=False)
 
 
 def _svg(fig) -> str:
     import io
 
-    import matplotlib.pyplot as plt
-
     buf = io.StringIO()
     fig.tight_layout()
     fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
-    plt.close(fig)
     text = buf.getvalue()
     return text[text.index("<svg"):]
 
@@ -44,6 +57,7 @@ def colour_of(role_ids):
     return {r: ROLE_COLOURS[i % len(ROLE_COLOURS)] for i, r in enumerate(role_ids)}
 
 
+@_styled
 def components_chart(diag) -> str:
     """Explained variance per component, cumulative share, and the parallel-analysis line."""
     fig, axes = _figure()
@@ -67,6 +81,7 @@ def components_chart(diag) -> str:
     return _svg(fig)
 
 
+@_styled
 def roles_chart(diag) -> str:
     """Silhouette, Calinski-Harabasz, gap and stability against the number of roles."""
     fig, axes = _figure(width=7.5, height=4.2, ncols=2, nrows=2)
@@ -89,6 +104,7 @@ def roles_chart(diag) -> str:
     return _svg(fig)
 
 
+@_styled
 def role_map_chart(placements, model) -> str:
     """The reference pool on the first two components, coloured by role, centroids marked."""
     fig, axes = _figure(width=7.0, height=4.6)
@@ -112,6 +128,7 @@ def role_map_chart(placements, model) -> str:
     return _svg(fig)
 
 
+@_styled
 def drift_chart(drift, model, *, per_role=2) -> str:
     """Per role, the features whose centroid moved most across seasons (in pool SDs)."""
     import numpy as np
@@ -139,6 +156,7 @@ def drift_chart(drift, model, *, per_role=2) -> str:
     return _svg(fig)
 
 
+@_styled
 def moves_chart(moves) -> str:
     """Distance moved against the distance expected from noise, coloured by status."""
     fig, axes = _figure(width=7.0, height=3.6)
@@ -155,6 +173,7 @@ def moves_chart(moves) -> str:
     return _svg(fig)
 
 
+@_styled
 def reliability_chart(noise, weights) -> str:
     """Per feature: year-to-year correlation and the share of spread that is signal."""
     import numpy as np

@@ -1,0 +1,65 @@
+"""Build the context from the section builders, and render it with jinja2."""
+
+from __future__ import annotations
+
+from dataclasses import fields
+
+__all__ = ["build_context", "template_environment", "render_report", "write_report"]
+
+
+def _sections():
+    """The section builders, in page order."""
+    from . import data, moves, roles
+
+    return (data.build_summary, roles.build_roles, moves.build_moves, data.build_drift,
+            roles.build_choice, data.build_features, data.build_data)
+
+
+def build_context(analysis):
+    """Shape an :class:`~drift.api.Analysis` into a :class:`ReportContext`.
+
+    Every builder returns a dict of context fields; a field set twice is a bug.
+    """
+    from .context import CAUTIONS, ReportContext, basis
+
+    shared = basis(analysis)
+    values = {"cautions": CAUTIONS}
+    for build in _sections():
+        part = build(analysis, shared)
+        clash = set(part) & set(values)
+        if clash:  # pragma: no cover - a programming error caught by every test
+            raise RuntimeError(f"report fields {sorted(clash)} set twice (by {build.__name__})")
+        values.update(part)
+    return ReportContext(**values)
+
+
+def template_environment():
+    """The one jinja2 Environment: templates from the package data, autoescape on."""
+    from pathlib import Path
+
+    import jinja2
+
+    package = Path(__file__).resolve().parent.parent
+    # installed: drift/templates (package data); source checkout: the top-level templates/
+    folder = next((f for f in (package / "templates", package.parent / "templates") if f.is_dir()), None)
+    if folder is None:  # pragma: no cover - a broken install
+        raise FileNotFoundError(f"drift's templates are missing (looked in {package / 'templates'}); reinstall drift")
+    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(folder)), autoescape=True,
+                             undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
+    env.filters["num"] = lambda v, d=2: "" if v is None or v != v else f"{v:,.{d}f}"
+    env.filters["pct"] = lambda v, d=0: "" if v is None or v != v else f"{100 * v:.{d}f}%"
+    env.filters["signed"] = lambda v, d=2: "" if v is None or v != v else f"{v:+.{d}f}"
+    return env
+
+
+def render_report(context) -> str:
+    """Render the report page from its context."""
+    values = {f.name: getattr(context, f.name) for f in fields(context)}
+    return template_environment().get_template("report.html").render(**values)
+
+
+def write_report(analysis, path):
+    """Build the context, render it and write ``path``."""
+    from pathlib import Path
+
+    Path(path).write_text(render_report(build_context(analysis)), encoding="utf-8")

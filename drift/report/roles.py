@@ -1,0 +1,91 @@
+"""Sections "Roles" and "How the roles were chosen": role cards, role map, count diagnostics."""
+
+from __future__ import annotations
+
+__all__ = ["build_roles", "build_choice"]
+
+_COMPONENT_RULES = {
+    "parallel": "Horn's parallel analysis: components whose eigenvalue beats the 95th "
+                "percentile of random data of the same shape",
+    "elbow": "the elbow of the cumulative explained-variance curve",
+}
+
+
+def build_roles(analysis, b) -> dict:
+    """Role cards (centre against the pool on the six most distinctive features) and the role map."""
+    import numpy as np
+    from markupsafe import Markup
+
+    from .. import charts
+    from ..describe import feature_label
+    from ..selection import STABLE_JACCARD
+
+    model = analysis.model
+    noise = model.noise_
+    mean = noise["mean"].to_numpy(float)
+    raw_sd = noise["sd"].to_numpy(float)
+    sd = np.where(raw_sd > 0, raw_sd, 1.0)
+    roles = []
+    for r, rid in enumerate(model.role_ids_):
+        cent = np.asarray(model.centroids_features_[r])
+        diff = (cent - mean) / sd
+        top = np.argsort(-np.abs(diff), kind="stable")[:6]
+        roles.append({
+            "id": rid, "name": model.role_names_[r], "description": model.role_descriptions_[r],
+            "size": int(model.role_sizes_[r]), "stability": float(model.role_stability_[r]),
+            "unstable": bool(model.role_stability_[r] < STABLE_JACCARD), "colour": b.colours[rid],
+            "features": [{"label": feature_label(model.features_[j]), "value": float(cent[j]),
+                          "pool": float(mean[j]), "sd_diff": float(diff[j])} for j in top],
+        })
+    return {"roles": roles,
+            "role_map": Markup(charts.role_map_chart(analysis.placements[b.pool_mask], model))}
+
+
+def _component_rule(model) -> str:
+    import numpy as np
+
+    q = model.components_.shape[0]
+    rule = model.components
+    if isinstance(rule, str):
+        text = _COMPONENT_RULES.get(rule) or f"the fewest components reaching {model.variance_threshold:.0%} of variance"
+    elif isinstance(rule, float):
+        text = f"the fewest components reaching {rule:.0%} of variance"
+    else:
+        text = f"a fixed count ({rule})"
+    return (f"{q} components kept by {text}; together they hold "
+            f"{float(np.sum(model.explained_variance_ratio_)):.0%} of the variance.")
+
+
+def _role_rule(model) -> str:
+    from ..selection import STABLE_JACCARD
+
+    rd = model.role_diagnostics_
+    k = len(model.role_ids_)
+    if model.roles != "auto":
+        return f"{k} roles, fixed by the settings."
+    picks = {c: int(rd.loc[rd[f"pick_{c}"], "k"].iloc[0]) for c in
+             ("silhouette", "calinski_harabasz", "gap") if f"pick_{c}" in rd and rd[f"pick_{c}"].any()}
+    return (f"{k} roles: silhouette picks {picks.get('silhouette')}, Calinski-Harabasz "
+            f"{picks.get('calinski_harabasz')}, the gap statistic {picks.get('gap')}, among "
+            f"counts whose every role reproduces on bootstrap resamples (Jaccard >= {STABLE_JACCARD}); "
+            "the decision is the count two criteria agree on, else their median.")
+
+
+def build_choice(analysis, b) -> dict:
+    """How the component and role counts were chosen, with their charts and tables."""
+    from markupsafe import Markup
+
+    from .. import charts
+
+    model = analysis.model
+    comp, rd = model.component_diagnostics_, model.role_diagnostics_
+    q = model.components_.shape[0]
+    alignment = analysis.alignment
+    return {
+        "component_rule": _component_rule(model), "role_rule": _role_rule(model),
+        "components_chart": Markup(charts.components_chart(comp)),
+        "roles_chart": Markup(charts.roles_chart(rd)) if len(rd) > 1 else Markup(""),
+        "components_table": comp.head(max(q + 3, 8)).to_dict(orient="records"),
+        "roles_table": rd.to_dict(orient="records"),
+        "alignment": alignment.table.to_dict(orient="records") if alignment is not None else None,
+    }
