@@ -49,6 +49,11 @@ class Analysis:
     alignment: object = None
     prepared: Prepared | None = None
     config: Config = field(default_factory=Config)
+    #: next-season outlook of every player placed in the latest season (columns:
+    #: drift.outlook.OUTLOOK_COLUMNS, then prob_<role>, exp_pc<j>); None with too few returning players
+    outlook: object = None
+    #: drift.outlook.Backtest (per-season scores and calibration table), or None
+    backtest: object = None
 
 
 def _missing_table(seasons, spec, filled):
@@ -153,6 +158,7 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
 
     from .moves import (comparables, consecutive_season_pairs, pair_moves, requested_pairs,
                         stint_pairs)
+    from .outlook import season_outlook
     from .roledrift import role_drift
 
     config = config or Config()
@@ -187,9 +193,10 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     pool_mask = kept["season"].isin(model.reference_seasons_).to_numpy()
     comps = comparables(model, placements, placements[pool_mask])
     drift = role_drift(model, kept, seed=config.seed)
+    outlook, backtest = season_outlook(placements, model)
     return Analysis(model=model, placements=placements, moves=moves, stints=stint_moves,
                     role_drift=drift, comparables=comps, alignment=alignment,
-                    prepared=prepared, config=config)
+                    prepared=prepared, config=config, outlook=outlook, backtest=backtest)
 
 
 def write_outputs(analysis: Analysis, folder):
@@ -207,6 +214,10 @@ def write_outputs(analysis: Analysis, folder):
     analysis.model.noise_.reset_index().to_csv(folder / "features.csv", index=False)
     if analysis.alignment is not None:
         analysis.alignment.table.to_csv(folder / "alignment.csv", index=False)
+    if analysis.outlook is not None:
+        analysis.outlook.to_csv(folder / "outlook.csv", index=False)
+        analysis.backtest.seasons.to_csv(folder / "backtest.csv", index=False)
+        analysis.backtest.calibration.to_csv(folder / "backtest_calibration.csv", index=False)
     write_report(analysis, folder / "report.html")
 
 

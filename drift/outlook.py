@@ -1,0 +1,402 @@
+"""Preseason outlook: where a returning player is likely to sit next season, and in which role.
+
+The data's own returning players are the evidence. For every placed season a
+player's *history* is summarised by the sample-weighted mean of his component
+scores over the seasons so far (each season weighted by its minutes times
+``decay`` per season back, so the latest season counts most), together with his
+latest role and the decayed minutes behind the summary.
+
+* **Role probabilities** come from a multinomial logistic regression of next
+  season's role on: the latest role (one column per role: the data's
+  year-to-year stay and change rates by role), the squared distances of the
+  history summary and of the latest season to every role centre in units of the
+  pool's within-role variance (the player's own evidence, including a player
+  sitting between two roles), and those history distances times the log sample
+  (how far to trust the evidence at his sample size). The L2 penalty regresses
+  everything toward the base rates; the fit uses every pair of consecutive
+  qualifying seasons in the data.
+* **Expected position**: per component, a least-squares line of next season's
+  score on the history score, its slope depending on the log sample
+  (regression to the mean is stronger for short histories); the root-mean-square
+  residual distance in three sample-size bins is the position's spread.
+
+``backtest`` refits all of it on the seasons before each season and scores it
+against what happened, beside the naive forecast "same role as last season"
+with its own best constant confidence (see README, "Outlook").
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .errors import NotFittedError
+
+__all__ = ["RoleOutlook", "history_table", "backtest", "calibration_table", "OUTLOOK_COLUMNS",
+           "Backtest", "season_outlook"]
+
+#: outlook.csv columns before the per-role probabilities (see README, "Outlook")
+OUTLOOK_COLUMNS = ("player_id", "player", "season", "team", "minutes", "role", "projected_role",
+                   "projected_prob", "stay_prob", "change_prob", "position_spread", "history_seasons",
+                   "history_minutes")
+
+
+def history_table(placements, *, decay=0.5):
+    """Per placed season, the player's history up to and including it.
+
+    Parameters
+    ----------
+    placements : DataFrame
+        ``player_id``, ``season``, ``minutes``, ``role`` and ``pc1..pcq`` (as placed).
+    decay : float
+        Weight of a season per season back, on top of its minutes.
+
+    Returns
+    -------
+    DataFrame, sorted by player and season, with the placement columns plus
+    ``hist_pc1..`` (decayed, minutes-weighted mean scores), ``history_minutes``
+    (the decayed minutes), ``history_seasons`` and ``next_role`` / ``next_season``
+    (the player's next placed season, empty for his latest) and ``next_pc1..``.
+    """
+    import numpy as np
+
+    pcs = _pcs(placements)
+    t = placements.sort_values(["player_id", "season"], kind="stable").reset_index(drop=True)
+    x = t[pcs].to_numpy(float)
+    w = t["minutes"].to_numpy(float)
+    same_prev = np.r_[False, t["player_id"].to_numpy()[1:] == t["player_id"].to_numpy()[:-1]]
+    s, wsum, count = np.zeros_like(x), np.zeros(len(t)), np.zeros(len(t), int)
+    for i in range(len(t)):  # a few thousand rows: a plain recursion is clearest
+        prev = same_prev[i]
+        s[i] = w[i] * x[i] + (decay * s[i - 1] if prev else 0.0)
+        wsum[i] = w[i] + (decay * wsum[i - 1] if prev else 0.0)
+        count[i] = 1 + (count[i - 1] if prev else 0)
+    hist = s / np.maximum(wsum, 1e-9)[:, None]
+    for j, c in enumerate(pcs):
+        t[f"hist_{c}"] = hist[:, j]
+    t["history_minutes"] = wsum
+    t["history_seasons"] = count
+    has_next = np.r_[same_prev[1:], False]
+    nxt = np.r_[np.arange(1, len(t)), 0]
+    t["next_season"] = np.where(has_next, t["season"].to_numpy()[nxt], None)
+    t["next_role"] = np.where(has_next, t["role"].to_numpy()[nxt], None)
+    for c in pcs:
+        t[f"next_{c}"] = np.where(has_next, t[c].to_numpy()[nxt], np.nan)
+    return t
+
+
+def _pcs(frame):
+    return [c for c in frame.columns if c.startswith("pc") and c[2:].isdigit()]
+
+
+class RoleOutlook:
+    """Next-season role probabilities and expected position of returning players.
+
+    Parameters
+    ----------
+    decay : float
+        Weight of each earlier season per season back (with its minutes).
+    C : float
+        Inverse L2 strength of the role regression (smaller: closer to base rates).
+    min_pairs : int
+        Fewest consecutive-season pairs needed to fit.
+
+    Attributes
+    ----------
+    role_ids_ : list of str
+    centroids_ : ndarray (k, q)
+    within_var_ : float
+    n_pairs_ : int
+    base_rates_ : ndarray (k,)
+        Share of each role among next seasons (smoothed by one per role).
+    stay_rates_ : dict
+        Role id -> share of its players who kept it the next season.
+    slopes_ : ndarray (q, 2)
+        Per component, the slope on the history score and its change per unit log sample.
+    spread_edges_, spread_ : ndarrays
+        Sample-size bin edges (log decayed minutes) and the RMS residual distance in each.
+    """
+
+    def __init__(self, *, decay=0.5, C=0.3, min_pairs=30):
+        self.decay = decay
+        self.C = C
+        self.min_pairs = min_pairs
+
+    def _design(self, h):
+        """Feature matrix of history rows ``h`` (see module docstring)."""
+        import numpy as np
+
+        pcs = [f"pc{j + 1}" for j in range(self.centroids_.shape[1])]
+        hist = h[[f"hist_{c}" for c in pcs]].to_numpy(float)
+        last = h[pcs].to_numpy(float)
+        scale = 2 * self.within_var_
+        d_hist = ((hist[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale
+        d_last = ((last[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale
+        # distances grow without bound far from a role; a log keeps the regression linear-ish
+        d_hist, d_last = np.log1p(d_hist), np.log1p(d_last)
+        onehot = (h["role"].to_numpy()[:, None] == np.asarray(self.role_ids_)[None]).astype(float)
+        size = np.log(np.maximum(h["history_minutes"].to_numpy(float), 1.0))[:, None] - self.size_mean_
+        return np.hstack([onehot, d_hist, d_last, d_hist * size, size])
+
+    def fit(self, placements, model):
+        """Fit on every pair of a player's consecutive placed seasons.
+
+        Parameters
+        ----------
+        placements : DataFrame
+            As written by :func:`drift.place.place` (all seasons).
+        model : RoleModel
+            The fitted model that placed them (role ids, centres, within-role variance).
+
+        Returns
+        -------
+        self
+        """
+        import numpy as np
+        from sklearn.linear_model import LogisticRegression
+
+        self.role_ids_ = list(model.role_ids_)
+        self.centroids_ = np.asarray(model.centroids_, float)
+        self.within_var_ = float(model.within_var_)
+        h = placements if "hist_pc1" in placements.columns else history_table(placements, decay=self.decay)
+        pairs = h[h["next_role"].notna()].reset_index(drop=True)
+        if len(pairs) < self.min_pairs:
+            raise ValueError(f"the outlook needs at least {self.min_pairs} pairs of consecutive seasons; "
+                             f"the data have {len(pairs)}")
+        self.n_pairs_ = int(len(pairs))
+        self.size_mean_ = float(np.log(np.maximum(pairs["history_minutes"].to_numpy(float), 1.0)).mean())
+        X = self._design(pairs)
+        self.x_mean_, self.x_scale_ = X.mean(axis=0), X.std(axis=0)
+        self.x_scale_[self.x_scale_ == 0] = 1.0
+        y = pairs["next_role"].to_numpy()
+        counts = np.array([(y == r).sum() for r in self.role_ids_], float)
+        self.base_rates_ = (counts + 1) / (counts.sum() + len(counts))
+        self.stay_rates_ = {r: float((y[pairs["role"].to_numpy() == r] == r).mean())
+                            for r in self.role_ids_ if (pairs["role"] == r).any()}
+        self.classes_ = sorted(set(y))
+        self.regression_ = None
+        if len(self.classes_) > 1:
+            self.regression_ = LogisticRegression(C=self.C, max_iter=2000).fit(
+                (X - self.x_mean_) / self.x_scale_, y)
+        self._fit_position(pairs)
+        return self
+
+    def _fit_position(self, pairs):
+        import numpy as np
+
+        q = self.centroids_.shape[1]
+        size = np.log(np.maximum(pairs["history_minutes"].to_numpy(float), 1.0)) - self.size_mean_
+        slopes, intercepts, resid = np.zeros((q, 2)), np.zeros(q), np.zeros((len(pairs), q))
+        for j in range(q):
+            xh = pairs[f"hist_pc{j + 1}"].to_numpy(float)
+            yn = pairs[f"next_pc{j + 1}"].to_numpy(float)
+            A = np.column_stack([np.ones_like(xh), xh, xh * size])
+            coef, *_ = np.linalg.lstsq(A, yn, rcond=None)
+            intercepts[j], slopes[j] = coef[0], coef[1:]
+            resid[:, j] = yn - A @ coef
+        self.intercepts_, self.slopes_ = intercepts, slopes
+        dist2 = (resid ** 2).sum(axis=1)
+        self.spread_edges_ = np.quantile(size, [1 / 3, 2 / 3])
+        which = np.searchsorted(self.spread_edges_, size)
+        overall = float(np.sqrt(dist2.mean()))
+        self.spread_ = np.array([float(np.sqrt(dist2[which == b].mean())) if (which == b).any() else overall
+                                 for b in range(3)])
+
+    def _check(self):
+        if not hasattr(self, "n_pairs_"):
+            raise NotFittedError("This RoleOutlook is not fitted yet; call fit(placements, model).")
+
+    def predict_proba(self, history):
+        """Role probabilities, shape (n, k) in ``role_ids_`` order, for history rows."""
+        import numpy as np
+
+        self._check()
+        n, k = len(history), len(self.role_ids_)
+        if self.regression_ is None:
+            raw = np.zeros((n, k))
+            raw[:, self.role_ids_.index(self.classes_[0])] = 1.0
+        else:
+            X = (self._design(history) - self.x_mean_) / self.x_scale_
+            got = self.regression_.predict_proba(X)
+            raw = np.zeros((n, k))
+            for j, c in enumerate(self.regression_.classes_):
+                raw[:, self.role_ids_.index(c)] = got[:, j]
+        # a role never seen as a next season still gets its smoothed base rate's share
+        floor = k / (self.n_pairs_ + k)
+        return (1 - floor) * raw + floor * self.base_rates_[None]
+
+    def predict_position(self, history):
+        """Expected component scores next season (n, q) and each row's spread (n,)."""
+        import numpy as np
+
+        self._check()
+        q = self.centroids_.shape[1]
+        size = np.log(np.maximum(history["history_minutes"].to_numpy(float), 1.0)) - self.size_mean_
+        hist = history[[f"hist_pc{j + 1}" for j in range(q)]].to_numpy(float)
+        slope = self.slopes_[None, :, 0] + self.slopes_[None, :, 1] * size[:, None]
+        expected = self.intercepts_[None] + slope * hist
+        return expected, self.spread_[np.searchsorted(self.spread_edges_, size)]
+
+    def outlook(self, placements):
+        """One row per player placed in the latest season: the outlook for the season after.
+
+        Returns
+        -------
+        DataFrame with :data:`OUTLOOK_COLUMNS`, then ``prob_<role>`` per role and the
+        expected scores ``exp_pc1..``.
+        """
+        import numpy as np
+
+        h = history_table(placements, decay=self.decay)
+        latest = h[h["season"] == h["season"].max()].reset_index(drop=True)
+        prob = self.predict_proba(latest)
+        expected, spread = self.predict_position(latest)
+        ids = np.asarray(self.role_ids_)
+        out = latest[[c for c in ("player_id", "player", "season", "team", "minutes", "role")
+                      if c in latest.columns]].copy()
+        best = prob.argmax(axis=1)
+        out["projected_role"] = ids[best]
+        out["projected_prob"] = prob[np.arange(len(out)), best]
+        own = np.array([self.role_ids_.index(r) for r in latest["role"]], int)
+        out["stay_prob"] = prob[np.arange(len(out)), own]
+        out["change_prob"] = 1 - out["stay_prob"]
+        out["position_spread"] = spread
+        out["history_seasons"] = latest["history_seasons"].to_numpy()
+        out["history_minutes"] = latest["history_minutes"].to_numpy()
+        for j, r in enumerate(self.role_ids_):
+            out[f"prob_{r}"] = prob[:, j]
+        for j in range(expected.shape[1]):
+            out[f"exp_pc{j + 1}"] = expected[:, j]
+        return out.sort_values(["change_prob", "player_id"], ascending=[False, True]).reset_index(drop=True)
+
+
+@dataclass(frozen=True)
+class Backtest:
+    """Scores per season (``seasons``) and the pooled calibration table (``calibration``)."""
+
+    seasons: object
+    calibration: object
+
+
+def _scores(prob, truth_idx, stay):
+    """Log loss and Brier score of probabilities (n, k) for true columns ``truth_idx``."""
+    import numpy as np
+
+    n = len(truth_idx)
+    onehot = np.zeros_like(prob)
+    onehot[np.arange(n), truth_idx] = 1.0
+    ll = float(-np.log(np.clip(prob[np.arange(n), truth_idx], 1e-15, 1.0)).mean())
+    brier = float(((prob - onehot) ** 2).sum(axis=1).mean())
+    return ll, brier
+
+
+def naive_proba(last_idx, k, confidence):
+    """"Same role as last season" with probability ``confidence``, the rest spread evenly."""
+    import numpy as np
+
+    prob = np.full((len(last_idx), k), (1 - confidence) / max(k - 1, 1))
+    prob[np.arange(len(last_idx)), last_idx] = confidence
+    return prob
+
+
+def backtest(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
+    """Refit the outlook on the seasons before each season and score it on that season.
+
+    The naive forecast keeps last season's role with the constant confidence that
+    is best *on the season scored* (the share who kept their role), an oracle
+    advantage that makes it a strict baseline. Seasons with fewer than
+    ``min_pairs`` earlier pairs are listed with ``scored`` false.
+
+    Returns
+    -------
+    Backtest
+        ``seasons``: season, scored, n_train, n_test, stay_rate, log_loss, brier,
+        naive_confidence, naive_log_loss, naive_brier, accuracy (of the projected
+        role) plus a pooled ``all`` row; ``calibration``: see :func:`calibration_table`.
+    """
+    import numpy as np
+    import pandas as pd
+
+    h = history_table(placements, decay=decay)
+    ids = list(model.role_ids_)
+    k = len(ids)
+    rows, probs, truths = [], [], []
+    pooled = {"ll": [], "br": [], "nll": [], "nbr": [], "acc": [], "n": []}
+    for season in sorted(h["next_season"].dropna().unique()):
+        train = h[h["next_season"].notna() & (h["next_season"] < season)]
+        test = h[h["next_season"] == season].reset_index(drop=True)
+        row = {"season": season, "scored": False, "n_train": int(len(train)), "n_test": int(len(test))}
+        if len(train) < min_pairs or not len(test):
+            rows.append(row)
+            continue
+        fitted = RoleOutlook(decay=decay, C=C, min_pairs=min_pairs).fit(train, model)
+        prob = fitted.predict_proba(test)
+        truth = np.array([ids.index(r) for r in test["next_role"]], int)
+        last = np.array([ids.index(r) for r in test["role"]], int)
+        stay = float((truth == last).mean())
+        conf = float(np.clip(stay, 1e-6, 1 - 1e-6))
+        ll, br = _scores(prob, truth, stay)
+        nll, nbr = _scores(naive_proba(last, k, conf), truth, stay)
+        acc = float((prob.argmax(axis=1) == truth).mean())
+        row.update(scored=True, stay_rate=stay, log_loss=ll, brier=br, naive_confidence=conf,
+                   naive_log_loss=nll, naive_brier=nbr, accuracy=acc)
+        rows.append(row)
+        for key, v in zip(("ll", "br", "nll", "nbr", "acc", "n"), (ll, br, nll, nbr, acc, len(test))):
+            pooled[key].append(v)
+        probs.append(prob)
+        truths.append(truth)
+    if pooled["n"]:
+        w = np.asarray(pooled["n"], float)
+        avg = {key: float(np.average(pooled[key], weights=w)) for key in ("ll", "br", "nll", "nbr", "acc")}
+        rows.append({"season": "all", "scored": True, "n_train": np.nan, "n_test": int(w.sum()),
+                     "stay_rate": np.nan, "log_loss": avg["ll"], "brier": avg["br"],
+                     "naive_confidence": np.nan, "naive_log_loss": avg["nll"], "naive_brier": avg["nbr"],
+                     "accuracy": avg["acc"]})
+    seasons = pd.DataFrame(rows, columns=["season", "scored", "n_train", "n_test", "stay_rate", "log_loss",
+                                          "brier", "naive_confidence", "naive_log_loss", "naive_brier",
+                                          "accuracy"])
+    calib = calibration_table(np.vstack(probs), np.concatenate(truths)) if probs else calibration_table(
+        np.zeros((0, k)), np.zeros(0, int))
+    return Backtest(seasons=seasons, calibration=calib)
+
+
+def calibration_table(prob, truth_idx, *, bins=10):
+    """Every (player, role) probability in equal-width bins: n, mean predicted, observed share.
+
+    Returns
+    -------
+    DataFrame: bin_low, bin_high, n, predicted, observed, gap (observed - predicted).
+    """
+    import numpy as np
+    import pandas as pd
+
+    n, k = prob.shape
+    hit = np.zeros((n, k))
+    if n:
+        hit[np.arange(n), truth_idx] = 1.0
+    p, y = prob.ravel(), hit.ravel()
+    which = np.clip((p * bins).astype(int), 0, bins - 1)
+    rows = []
+    for b in range(bins):
+        sel = which == b
+        m = int(sel.sum())
+        pred = float(p[sel].mean()) if m else np.nan
+        obs = float(y[sel].mean()) if m else np.nan
+        rows.append({"bin_low": b / bins, "bin_high": (b + 1) / bins, "n": m, "predicted": pred,
+                     "observed": obs, "gap": obs - pred if m else np.nan})
+    return pd.DataFrame(rows)
+
+
+def season_outlook(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
+    """The outlook for the season after the latest, and its backtest, as a run makes them.
+
+    Returns
+    -------
+    (DataFrame or None, Backtest or None)
+        ``None`` when the data have fewer than ``min_pairs`` pairs of consecutive
+        placed seasons (nothing to learn year-to-year stability from).
+    """
+    h = history_table(placements, decay=decay)
+    if int(h["next_role"].notna().sum()) < min_pairs:
+        return None, None
+    fitted = RoleOutlook(decay=decay, C=C, min_pairs=min_pairs).fit(h, model)
+    return fitted.outlook(placements), backtest(placements, model, decay=decay, C=C, min_pairs=min_pairs)
