@@ -199,29 +199,59 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
                     prepared=prepared, config=config, outlook=outlook, backtest=backtest)
 
 
+#: every file a run may write into its output folder (besides the marker)
+OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
+                "role_drift.csv", "comparables.csv", "features.csv", "alignment.csv", "outlook.csv",
+                "backtest.csv", "backtest_calibration.csv", "report.html")
+
+
 def write_outputs(analysis: Analysis, folder):
-    """Write every output file of a run into ``folder`` (see README, "Outputs")."""
+    """Write every output file of a run into ``folder`` (see README, "Outputs").
+
+    CSV text cells are neutralised for spreadsheets (:mod:`drift.safecsv`).
+    """
     from .report import write_report
+    from .safecsv import write_csv
 
     folder = Path(folder)
     analysis.model.save(folder / "model.json")
-    analysis.placements.to_csv(folder / "placements.csv", index=False)
-    analysis.moves.to_csv(folder / "moves.csv", index=False)
-    analysis.prepared.excluded.to_csv(folder / "excluded.csv", index=False)
-    analysis.stints.to_csv(folder / "stints.csv", index=False)
-    analysis.role_drift.to_csv(folder / "role_drift.csv", index=False)
-    analysis.comparables.to_csv(folder / "comparables.csv", index=False)
-    analysis.model.noise_.reset_index().to_csv(folder / "features.csv", index=False)
+    write_csv(analysis.placements, folder / "placements.csv")
+    write_csv(analysis.moves, folder / "moves.csv")
+    write_csv(analysis.prepared.excluded, folder / "excluded.csv")
+    write_csv(analysis.stints, folder / "stints.csv")
+    write_csv(analysis.role_drift, folder / "role_drift.csv")
+    write_csv(analysis.comparables, folder / "comparables.csv")
+    write_csv(analysis.model.noise_.reset_index(), folder / "features.csv")
     if analysis.alignment is not None:
-        analysis.alignment.table.to_csv(folder / "alignment.csv", index=False)
+        write_csv(analysis.alignment.table, folder / "alignment.csv")
     if analysis.outlook is not None:
-        analysis.outlook.to_csv(folder / "outlook.csv", index=False)
-        analysis.backtest.seasons.to_csv(folder / "backtest.csv", index=False)
-        analysis.backtest.calibration.to_csv(folder / "backtest_calibration.csv", index=False)
+        write_csv(analysis.outlook, folder / "outlook.csv")
+        write_csv(analysis.backtest.seasons, folder / "backtest.csv")
+        write_csv(analysis.backtest.calibration, folder / "backtest_calibration.csv")
     write_report(analysis, folder / "report.html")
 
 
-def run(data, out, config: Config | None = None, *, previous=None) -> Analysis:
+def _as_list(data):
+    return [data] if isinstance(data, (str, Path)) else list(data)
+
+
+def check_seasons(prepared: Prepared, config: Config) -> None:
+    """Refuse, before any fitting, seasons named in ``config`` that the data lacks."""
+    available = sorted(set(prepared.kept["season"]))
+    if config.reference:
+        unknown = [s for s in config.reference if s not in available]
+        if unknown:
+            raise InputError(f"reference season(s) {unknown} are not in the data; available: {available}")
+    if config.compare:
+        a, b = config.compare
+        if a == b:
+            raise InputError(f"--compare needs two different seasons, got {a!r} twice")
+        for s in (a, b):
+            if s not in available:
+                raise InputError(f"--compare season {s!r} is not in the data; available: {available}")
+
+
+def run(data, out, config: Config | None = None, *, previous=None, inputs=()) -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
     Parameters
@@ -233,6 +263,12 @@ def run(data, out, config: Config | None = None, *, previous=None) -> Analysis:
     config : Config, optional
     previous : path, optional
         A previous ``model.json`` whose role ids, names and descriptions are carried over.
+    inputs : paths, optional
+        Other files the output must not touch (the CLI passes the config file).
+
+    Everything that can be checked is checked before fitting: the output folder (writable,
+    not an input, drift's own if it exists), the seasons named in ``config`` and the
+    previous model (valid, sharing features with the data).
 
     Returns
     -------
@@ -240,24 +276,30 @@ def run(data, out, config: Config | None = None, *, previous=None) -> Analysis:
     """
     from .align import align_models, relabel
     from .model import RoleModel
-    from .outputs import atomic_folder
+    from .outputs import atomic_folder, check_output_folder
 
     config = config or Config()
+    guarded = [*_as_list(data), previous, *inputs]
+    check_output_folder(out, inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config)
+    check_seasons(prepared, config)
+    if prev is not None and not set(prev.features_) & set(prepared.features):
+        raise InputError(f"--previous model {previous} shares no feature with the data; it cannot "
+                         "carry role ids, give a model fitted on the same kind of export")
     model = fit_model(prepared, config)
     alignment = None
     if prev is not None:
         alignment = align_models(prev, model)
         relabel(model, prev, alignment, keep_names=dict(config.role_names))
     analysis = analyse(prepared, model, config, alignment=alignment)
-    with atomic_folder(out) as tmp:
+    with atomic_folder(out, inputs=guarded) as tmp:
         write_outputs(analysis, tmp)
     return analysis
 
 
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
-                min_minutes_per_game=None):
+                min_minutes_per_game=None, inputs=()):
     """Place season files with a saved model and write one CSV.
 
     The model's features must all be present, and no others. The filters are
@@ -265,7 +307,9 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     ``min_minutes_per_game`` are given (a partial season wants fewer games);
     ``config`` supplies the column mapping.
 
-    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``.
+    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``. Neither
+    may be an input (model, data, ``inputs``) nor lie in an input folder, and an existing
+    file is replaced only if drift wrote it (checked before any work).
 
     Returns
     -------
@@ -273,8 +317,14 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
         The placements written; ``.attrs["excluded"]`` holds the excluded rows.
     """
     from .model import RoleModel
-    from .outputs import atomic_file
+    from .outputs import atomic_file, check_output_file
+    from .safecsv import write_csv
 
+    out = Path(out)
+    excluded_path = out.with_name(f"{out.stem}_excluded.csv")
+    guarded = [model_path, *_as_list(files), *inputs]
+    check_output_file(out, inputs=guarded)
+    check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
     model = RoleModel.load(model_path)
     intake = model.intake_
     config = (config or Config()).replace(
@@ -285,12 +335,11 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     prepared = prepare(files, config)
     model.check_features(prepared.features)
     placements = model.place(prepared.kept)
-    out = Path(out)
-    excluded_path = out.with_name(f"{out.stem}_excluded.csv")
-    with atomic_file(out) as tmp:
-        placements.to_csv(tmp, index=False)
+    with atomic_file(out, inputs=guarded) as tmp:
+        write_csv(placements, tmp)
     if len(prepared.excluded):
-        with atomic_file(excluded_path) as tmp:
-            prepared.excluded.to_csv(tmp, index=False)
+        with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
+                         what="the excluded list") as tmp:
+            write_csv(prepared.excluded, tmp)
     placements.attrs["excluded"] = prepared.excluded
     return placements

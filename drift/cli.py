@@ -41,26 +41,60 @@ def _roles(text: str):
         value = int(text)
     except ValueError:
         raise argparse.ArgumentTypeError(f"{text!r}: give auto or a whole number >= 2") from None
-    if value < 1:
-        raise argparse.ArgumentTypeError(f"{text!r}: the number of roles must be >= 1")
+    if value < 2:
+        raise argparse.ArgumentTypeError(f"{text!r}: the number of roles must be >= 2")
     return value
+
+
+def _finite(text: str):
+    import math
+
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r}: give a number") from None
+    if not math.isfinite(value):
+        raise argparse.ArgumentTypeError(f"{text!r}: give a finite number")
+    return value
+
+
+def _count(text: str):
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number") from None
+    if value < 0:
+        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number >= 0")
+    return value
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse whose errors are one ``drift: error:`` line, exit 2."""
+
+    def error(self, message):
+        from .messages import printable
+
+        self.exit(2, f"drift: error: {printable(message)} (see '{self.prog} --help')\n")
 
 
 def _add_intake_options(p):
     p.add_argument("--config", metavar="TOML", help="config file (columns, filters, model settings)")
-    p.add_argument("--min-games", type=int, metavar="N",
+    p.add_argument("--min-games", type=_count, metavar="N",
                    help="fewest games for a season to be placed (run: default 20; place: the model's)")
-    p.add_argument("--min-minutes", type=float, metavar="MPG",
+    p.add_argument("--min-minutes", type=_finite, metavar="MPG",
                    help="fewest minutes per game (run: default 10; place: the model's)")
 
 
 def build_parser() -> argparse.ArgumentParser:
     from . import __version__
 
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="drift", description="Season-over-season role drift for basketball front offices.")
     parser.add_argument("--version", action="version", version=f"drift {__version__}")
-    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+    parser.add_argument("--debug", action="store_true", default=False,
+                        help="show the traceback of an unexpected error")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND",
+                                parser_class=_Parser)
 
     run = sub.add_parser("run", help="fit roles on a reference pool, place every season, measure moves",
                          epilog=_RUN_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
@@ -75,7 +109,7 @@ def build_parser() -> argparse.ArgumentParser:
                      help="how small samples are handled (default shrink)")
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
-    run.add_argument("--alpha", type=float, help="level for 'beyond noise' (default 0.01)")
+    run.add_argument("--alpha", type=_finite, help="level for 'beyond noise' (default 0.01)")
     run.add_argument("--seed", type=int, help="random seed (default 0)")
 
     place = sub.add_parser("place", help="place season files with a saved model",
@@ -89,6 +123,8 @@ def build_parser() -> argparse.ArgumentParser:
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
     demo.add_argument("--seed", type=int, default=2024, help="seed of the league (default 2024)")
+    for p in (run, place, demo):  # --debug also after the command name
+        p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=argparse.SUPPRESS)
     return parser
 
 
@@ -109,18 +145,20 @@ def _config(args):
 def _run(args):
     from .api import run
 
-    analysis = run(args.data, args.out, _config(args), previous=args.previous)
+    analysis = run(args.data, args.out, _config(args), previous=args.previous,
+                   inputs=[args.config] if args.config else ())
     moves = analysis.moves
     changed = int((moves["status"] == "changed").sum()) if len(moves) else 0
-    print(f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} roles; "
-          f"{changed} role changes beyond noise; report: {args.out}/report.html")
+    return (f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} "
+            f"roles; {changed} role changes beyond noise; report: {args.out}/report.html")
 
 
 def _place(args):
     from .api import place_files
 
     placements = place_files(args.model, args.files, args.out, _config(args),
-                             min_games=args.min_games, min_minutes_per_game=args.min_minutes)
+                             min_games=args.min_games, min_minutes_per_game=args.min_minutes,
+                             inputs=[args.config] if args.config else ())
     excluded = placements.attrs.get("excluded")
     note = ""
     if excluded is not None and len(excluded):
@@ -129,41 +167,27 @@ def _place(args):
         out = Path(args.out)
         note = (f"; {len(excluded)} excluded by the filters, listed in "
                 f"{out.with_name(out.stem + '_excluded.csv')}")
-    print(f"drift: placed {len(placements)} player-seasons; wrote {args.out}{note}")
+    return f"drift: placed {len(placements)} player-seasons; wrote {args.out}{note}"
 
 
 def _demo(args):
     from .demo import generate_league, write_league
 
     files = write_league(args.out, generate_league(args.seed))
-    print(f"drift: wrote {len(files)} season files and the truth to {args.out}")
+    return f"drift: wrote {len(files)} season files and the truth to {args.out}"
 
 
 def main(argv=None) -> int:
-    """Entry point; returns the exit code (0 ok, 2 a drift error)."""
-    from .errors import DriftError
+    """Entry point; returns the exit code.
 
-    import warnings
+    0 done; 2 a refused input or any other failure (one ``drift: error:`` line); 130
+    interrupted by Ctrl-C, 143 by SIGTERM; 141 the reader of the output went away (quietly).
+    """
+    from .messages import run_guarded
 
-    from .errors import DriftWarning
-
-    parser = build_parser()
-    args = parser.parse_args(argv)
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", DriftWarning)
-        try:
-            {"run": _run, "place": _place, "demo": _demo}[args.command](args)
-        except DriftError as exc:
-            message = " ".join(str(exc).split("\n")[:2])
-            print(f"drift: error: {message}", file=sys.stderr)
-            return 2
-        finally:
-            for w in caught:
-                if issubclass(w.category, DriftWarning):
-                    print(f"drift: warning: {w.message}", file=sys.stderr)
-                else:
-                    warnings.showwarning(w.message, w.category, w.filename, w.lineno)
-    return 0
+    args = build_parser().parse_args(argv)
+    return run_guarded({"run": _run, "place": _place, "demo": _demo}[args.command], args,
+                       debug=args.debug)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -1,68 +1,391 @@
-"""Atomic outputs: a run's folder appears whole or not at all."""
+"""Outputs drift owns: folders replaced whole or not at all, never a file drift did not write.
+
+An output folder carries a marker file, ``.drift-output.json``, naming the files drift wrote
+there. A rerun replaces only a folder with a valid marker (or an empty one), removes only the
+files the marker names, and keeps everything else the user put in the folder. No output may
+be, contain or lie inside an input (data files and folders, the model, the config).
+
+How a folder is replaced (Linux): the new outputs are written into a hidden staging folder
+beside ``out`` (``.<name>.drift-new-<pid>-<random>``); the user's own files are carried in
+as hard links; then one ``renameat2(RENAME_EXCHANGE)`` swaps the two folders, so at every
+instant ``out`` is either the complete old output or the complete new one. Where that call
+is missing, ``out`` is first moved to ``.<name>.drift-old-<pid>-<random>`` and the next run
+puts it back if it was interrupted between the two renames. A run killed at any point leaves
+hidden litter whose process is gone; the next run removes it, but only what it can prove is
+its own (the files its marker names, files it wrote while staging, and links whose twin is
+in ``out``).
+"""
 
 from __future__ import annotations
 
+import json
 import os
-import shutil
-import tempfile
+import secrets
+import signal
 from contextlib import contextmanager
 from pathlib import Path
 
 from .errors import InputError
 
-__all__ = ["atomic_folder", "atomic_file", "MARKER_FILES"]
+__all__ = ["MARKER", "check_inputs", "check_output_folder", "atomic_folder", "check_output_file",
+           "atomic_file"]
 
-#: a folder holding one of these is a drift output that may be replaced
-MARKER_FILES = ("model.json", "report.html")
+#: the marker file drift writes into every output folder
+MARKER = ".drift-output.json"
+_TEST_KILL = "_DRIFT_TEST_KILL_AT"  # test-only: SIGKILL ourselves at a named step
+_TEST_NO_EXCHANGE = "_DRIFT_TEST_NO_EXCHANGE"  # test-only: use the two-rename fallback
 
 
-@contextmanager
-def atomic_folder(out):
-    """Yield a temporary folder beside ``out``; on success it replaces ``out``.
+def _test_point(name):
+    # Tests kill a subprocess at a chosen step to prove what an interruption leaves behind.
+    if os.environ.get(_TEST_KILL) == name:
+        os.kill(os.getpid(), signal.SIGKILL)
 
-    An existing ``out`` is replaced only if it is empty or an earlier drift output.
-    On any error the temporary folder is removed and ``out`` is untouched.
+
+def _abs(path) -> Path:
+    return Path(os.path.abspath(os.fspath(path)))
+
+
+def check_inputs(out, inputs, *, what="--out"):
+    """Refuse an output that is, contains or lies inside one of ``inputs``."""
+    out_abs = _abs(out)
+    out_real = Path(os.path.realpath(out_abs))
+    for given in inputs:
+        if given is None:
+            continue
+        real = Path(os.path.realpath(_abs(given)))
+        if out_real == real:
+            raise InputError(f"{what} is the input {given}; drift never overwrites its inputs, "
+                             "choose another path", file=out)
+        if out_real in real.parents:
+            raise InputError(f"{what} contains the input {given}; replacing it would delete the "
+                             "input, choose another path", file=out)
+        if real in out_real.parents:
+            raise InputError(f"{what} lies inside the input folder {given}; the next run would read "
+                             "it as data, choose a path outside it", file=out)
+
+
+def _pid_alive(pid: int) -> bool:
+    if pid == os.getpid():
+        return True
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except (PermissionError, OverflowError):
+        return True
+    return True
+
+
+def _litter_pid(name: str, target: str):
+    """The pid in a litter name ``.<target>.drift-(new|old|tmp)-<pid>-<hex>``, else None."""
+    prefix = f".{target}.drift-"
+    if not name.startswith(prefix):
+        return None
+    parts = name[len(prefix):].split("-")
+    if len(parts) != 3 or parts[0] not in ("new", "old", "tmp") or not parts[1].isdigit():
+        return None
+    return parts[0], int(parts[1])
+
+
+def _read_marker(folder: Path):
+    """The marker's dict, or None when there is none or it is not drift's."""
+    path = folder / MARKER
+    try:
+        if path.is_symlink() or not path.is_file() or path.stat().st_size > 1_000_000:
+            return None
+        data = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return None
+    if (not isinstance(data, dict) or data.get("written_by") != "drift"
+            or data.get("state") not in ("staging", "complete")
+            or not isinstance(data.get("files"), list)
+            or not all(isinstance(f, str) and f and "/" not in f and f not in (".", "..")
+                       for f in data["files"])):
+        return None
+    return data
+
+
+def _write_marker(folder: Path, state: str, files=()):
+    text = json.dumps({"written_by": "drift", "state": state, "files": sorted(files)}, indent=1)
+    (folder / MARKER).write_text(text + "\n", encoding="utf-8")
+
+
+def _twins(a: Path, b: Path) -> bool:
+    """True when ``a`` and ``b`` are the same file (hard links) or equal symbolic links."""
+    try:
+        if a.is_symlink():
+            return b.is_symlink() and os.readlink(a) == os.readlink(b)
+        sa, sb = os.lstat(a), os.lstat(b)
+    except OSError:
+        return False
+    return (sa.st_dev, sa.st_ino) == (sb.st_dev, sb.st_ino)
+
+
+def _remove_owned(folder: Path, owned, twin_root) -> None:
+    """Remove from ``folder`` only what drift can prove is its own, then the folder if empty.
+
+    ``owned`` is a set of names, or None for a staging folder (every regular file in it was
+    written by drift). Anything else is removed only when ``twin_root`` holds its twin.
     """
-    out = Path(out)
-    if out.exists():
-        if not out.is_dir():
-            raise InputError("--out exists and is a file; give a folder", file=out)
-        if any(out.iterdir()) and not any((out / m).exists() for m in MARKER_FILES):
-            raise InputError("--out is a non-empty folder that is not a drift output; "
-                             "give a new or empty folder", file=out)
-    out.parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.", dir=out.parent))
-    umask = os.umask(0)
-    os.umask(umask)
-    os.chmod(tmp, 0o777 & ~umask)  # mkdtemp makes it private; an output folder is not
+    for entry in list(folder.iterdir()):
+        twin = twin_root / entry.name if twin_root is not None else None
+        if entry.is_dir() and not entry.is_symlink():
+            _remove_owned(entry, set(), twin)
+            continue
+        mine = (entry.name == MARKER or (owned is not None and entry.name in owned)
+                or (owned is None and entry.is_file() and not entry.is_symlink()))
+        if mine or (twin is not None and _twins(entry, twin)):
+            entry.unlink()
     try:
-        yield tmp
-        if out.exists():
-            old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old.", dir=out.parent))
-            os.replace(out, old / out.name)
-            os.replace(tmp, out)
-            shutil.rmtree(old, ignore_errors=True)
-        else:
-            os.replace(tmp, out)
-    finally:
-        if tmp.exists():
-            shutil.rmtree(tmp, ignore_errors=True)
+        folder.rmdir()
+    except OSError:
+        pass  # something we cannot prove is ours is still there: leave it
+
+
+def _clean_litter(out: Path) -> None:
+    """Restore an output moved away by an interrupted run, and remove provable litter."""
+    parent = out.parent
+    if not parent.is_dir():
+        return
+    found = []
+    for entry in parent.iterdir():
+        tag = _litter_pid(entry.name, out.name)
+        if tag is not None and not _pid_alive(tag[1]) and not entry.is_symlink():
+            found.append((tag[0], entry))
+    if not os.path.lexists(out):
+        backups = [e for kind, e in found if kind == "old" and e.is_dir()
+                   and (_read_marker(e) or {}).get("state") == "complete"]
+        if backups:
+            newest = max(backups, key=lambda e: e.stat().st_mtime)
+            os.rename(newest, out)
+            found = [(k, e) for k, e in found if e != newest]
+    for kind, entry in found:
+        if entry.is_dir():
+            marker = _read_marker(entry)
+            if marker is None:
+                if not any(entry.iterdir()):
+                    entry.rmdir()
+                continue
+            owned = None if marker["state"] == "staging" else set(marker["files"])
+            _remove_owned(entry, owned, out if out.is_dir() else None)
+        elif kind == "tmp" and entry.is_file():
+            entry.unlink()
+
+
+def _nearest_existing(path: Path) -> Path:
+    while not os.path.lexists(path) and path != path.parent:
+        path = path.parent
+    return path
+
+
+def _check_parent(out: Path, what: str) -> None:
+    base = _nearest_existing(out.parent)
+    if not base.is_dir():
+        raise InputError(f"{what} cannot be created: {base} is a file, not a folder", file=out)
+    if not os.access(base, os.W_OK | os.X_OK):
+        raise InputError(f"{what} cannot be written: no write permission in {base}", file=out)
+
+
+def check_output_folder(out, *, inputs=(), names=()) -> dict:
+    """Check before any work that ``out`` may be written; return what it holds.
+
+    Parameters
+    ----------
+    out : path
+    inputs : paths that the output must not be, contain or lie inside
+    names : file names the run may write (a user's file of one of these names is refused)
+
+    Returns
+    -------
+    dict
+        ``owned`` (names drift wrote there before) and ``foreign`` (everything else).
+
+    Raises
+    ------
+    InputError
+        With the reason and the fix.
+    """
+    out = _abs(out)
+    check_inputs(out, inputs)
+    _check_parent(out, "--out")
+    _clean_litter(out)
+    if out.is_symlink():
+        raise InputError("--out is a symbolic link; give the folder itself", file=out)
+    if not out.exists():
+        return {"owned": set(), "foreign": set()}
+    if not out.is_dir():
+        raise InputError("--out exists and is a file; give a folder", file=out)
+    if not os.access(out, os.W_OK | os.X_OK):
+        raise InputError("--out cannot be written: no write permission", file=out)
+    present = {p.name for p in out.iterdir()} - {MARKER}
+    marker = _read_marker(out)
+    if marker is None or marker["state"] != "complete":
+        if present or (out / MARKER).exists():
+            raise InputError(f"--out is a non-empty folder that is not a drift output (no valid {MARKER}); "
+                             "give a new or empty folder", file=out)
+        return {"owned": set(), "foreign": set()}
+    owned = set(marker["files"]) & present
+    foreign = present - owned
+    clash = sorted(foreign & set(names))
+    if clash:
+        raise InputError(f"--out holds {', '.join(clash)}, which drift did not write there; move it "
+                         "away or choose another folder", file=out)
+    return {"owned": owned, "foreign": foreign}
+
+
+def _carry(src: Path, dst: Path) -> None:
+    """Recreate ``src`` at ``dst`` with hard links (files), new folders and equal symlinks."""
+    if src.is_symlink():
+        os.symlink(os.readlink(src), dst)
+    elif src.is_dir():
+        dst.mkdir()
+        for entry in src.iterdir():
+            _carry(entry, dst / entry.name)
+    elif src.is_file():
+        os.link(src, dst)
+    else:
+        raise InputError("--out holds a special file drift cannot keep; move it away", file=src)
+
+
+_EXCHANGE = None
+
+
+def _exchange(a: Path, b: Path) -> bool:
+    """Atomically swap two paths (Linux renameat2); False when the system cannot."""
+    global _EXCHANGE  # a cached libc handle, not state of a run
+    if os.environ.get(_TEST_NO_EXCHANGE):
+        return False
+    if _EXCHANGE is None:
+        import ctypes
+        import ctypes.util
+
+        try:
+            libc = ctypes.CDLL(ctypes.util.find_library("c") or None, use_errno=True)
+            _EXCHANGE = libc.renameat2
+        except (OSError, AttributeError):
+            _EXCHANGE = False
+    if not _EXCHANGE:
+        return False
+    at_cwd, rename_exchange = -100, 2
+    if _EXCHANGE(at_cwd, os.fsencode(a), at_cwd, os.fsencode(b), rename_exchange) == 0:
+        return True
+    return False
 
 
 @contextmanager
-def atomic_file(path):
+def _signals_held():
+    """Hold Ctrl-C and SIGTERM during the swap; they act right after it."""
+    held = {signal.SIGINT, signal.SIGTERM}
+    try:
+        old = signal.pthread_sigmask(signal.SIG_BLOCK, held)
+    except (AttributeError, OSError, ValueError):
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.pthread_sigmask(signal.SIG_SETMASK, old)
+
+
+def _staging(out: Path, kind: str) -> Path:
+    return out.parent / f".{out.name}.drift-{kind}-{os.getpid()}-{secrets.token_hex(4)}"
+
+
+def _commit(tmp: Path, out: Path, inputs) -> None:
+    state = check_output_folder(out, inputs=inputs, names={p.name for p in tmp.iterdir()})
+    _write_marker(tmp, "complete", [p.name for p in tmp.iterdir() if p.name != MARKER])
+    with _signals_held():
+        if not out.exists():
+            os.rename(tmp, out)
+            return
+        for name in sorted(state["foreign"]):
+            _carry(out / name, tmp / name)
+        _test_point("carried")
+        if _exchange(tmp, out):
+            old = tmp
+        else:
+            old = _staging(out, "old")
+            os.rename(out, old)
+            _test_point("moved-away")
+            os.rename(tmp, out)
+        _test_point("swapped")
+        try:
+            _remove_owned(old, state["owned"], out)
+        except OSError:
+            pass  # the new output is in place; the next run removes what is left
+
+
+@contextmanager
+def atomic_folder(out, *, inputs=()):
+    """Yield a staging folder; on success it replaces ``out`` (see the module docstring).
+
+    ``out`` is checked first (:func:`check_output_folder`). On any error, or Ctrl-C, the
+    staging folder is removed and ``out`` is untouched.
+    """
+    out = _abs(out)
+    check_output_folder(out, inputs=inputs)
+    out.parent.mkdir(parents=True, exist_ok=True)
+    tmp = _staging(out, "new")
+    tmp.mkdir()
+    committed = False
+    try:
+        _write_marker(tmp, "staging")
+        _test_point("staging")
+        os.chmod(tmp, 0o777 & ~_umask())
+        yield tmp
+        _test_point("written")
+        _commit(tmp, out, inputs)
+        committed = True  # after the swap ``tmp`` may hold the old output: _commit cleaned it
+    finally:
+        if not committed and tmp.exists():
+            _remove_owned(tmp, None, out if out.is_dir() else None)
+
+
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
+def check_output_file(path, *, inputs=(), header=("player_id", "role"), what="--out"):
+    """Check before any work that the file ``path`` may be written.
+
+    An existing file is replaced only when empty or when its first line is a CSV header
+    holding every name in ``header`` (a file drift wrote); anything else is refused.
+    """
+    path = _abs(path)
+    check_inputs(path, inputs, what=what)
+    _check_parent(path, what)
+    _clean_litter(path)
+    if path.is_symlink() or (path.exists() and not path.is_file()):
+        raise InputError(f"{what} exists and is not a regular file; give a file path", file=path)
+    if path.exists() and path.stat().st_size > 0:
+        try:
+            with open(path, encoding="utf-8", newline="") as fh:
+                first = fh.readline(10_000)
+        except (OSError, UnicodeDecodeError):
+            first = ""
+        fields = {f.strip().strip('"') for f in first.rstrip("\r\n").split(",")}
+        if not set(header) <= fields:
+            raise InputError(f"{what} exists and is not a file drift wrote (its header lacks "
+                             f"{', '.join(header)}); choose another path or remove it", file=path)
+    return path
+
+
+@contextmanager
+def atomic_file(path, *, inputs=(), header=("player_id", "role"), what="--out"):
     """Yield a temporary path beside ``path``; on success it replaces ``path``."""
-    path = Path(path)
+    path = check_output_file(path, inputs=inputs, header=header, what=what)
     path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
-    os.close(fd)
-    tmp = Path(tmp)
-    umask = os.umask(0)
-    os.umask(umask)
-    os.chmod(tmp, 0o666 & ~umask)
+    tmp = _staging(path, "tmp")
     try:
         yield tmp
-        os.replace(tmp, path)
+        if tmp.exists():
+            os.chmod(tmp, 0o666 & ~_umask())
+        check_output_file(path, inputs=inputs, header=header, what=what)
+        with _signals_held():
+            os.replace(tmp, path)
     finally:
         if tmp.exists():
             tmp.unlink()

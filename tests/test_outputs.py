@@ -1,0 +1,256 @@
+"""Output ownership: drift replaces only what it wrote, never an input, and survives being killed."""
+
+from __future__ import annotations
+
+import json
+import os
+import signal
+import subprocess
+import sys
+import textwrap
+
+import pytest
+
+from drift.errors import InputError
+from drift.outputs import MARKER, atomic_file, atomic_folder, check_output_file, check_output_folder
+
+from conftest import ROOT
+
+
+def _write(out, files, **kw):
+    with atomic_folder(out, **kw) as tmp:
+        for name, text in files.items():
+            (tmp / name).write_text(text)
+
+
+def _hidden(folder):
+    return sorted(p.name for p in folder.iterdir() if p.name.startswith("."))
+
+
+def test_marker_names_the_files_drift_wrote(tmp_path):
+    out = tmp_path / "out"
+    _write(out, {"a.csv": "1", "report.html": "r"})
+    marker = json.loads((out / MARKER).read_text())
+    assert marker["written_by"] == "drift" and marker["files"] == ["a.csv", "report.html"]
+    assert _hidden(tmp_path) == []
+
+
+def test_rerun_keeps_the_users_files_and_removes_only_its_own(tmp_path):
+    out = tmp_path / "out"
+    _write(out, {"a.csv": "old", "gone.csv": "old"})
+    (out / "notes.txt").write_text("mine")
+    (out / "sub").mkdir()
+    (out / "sub" / "deep.txt").write_text("mine too")
+    os.symlink("notes.txt", out / "link")
+    _write(out, {"a.csv": "new", "b.csv": "new"})
+    assert (out / "a.csv").read_text() == "new" and (out / "b.csv").read_text() == "new"
+    assert not (out / "gone.csv").exists()  # drift's own file from the last run
+    assert (out / "notes.txt").read_text() == "mine"
+    assert (out / "sub" / "deep.txt").read_text() == "mine too"
+    assert os.readlink(out / "link") == "notes.txt"
+    assert json.loads((out / MARKER).read_text())["files"] == ["a.csv", "b.csv"]
+    assert _hidden(tmp_path) == []
+
+
+def test_a_users_file_with_an_output_name_is_refused(tmp_path):
+    out = tmp_path / "out"
+    _write(out, {"a.csv": "old"})
+    (out / "alignment.csv").write_text("mine")
+    with pytest.raises(InputError, match="alignment.csv, which drift did not write"):
+        check_output_folder(out, names=("alignment.csv",))
+    with pytest.raises(InputError, match="did not write"):
+        _write(out, {"alignment.csv": "new"})
+    assert (out / "alignment.csv").read_text() == "mine" and (out / "a.csv").read_text() == "old"
+
+
+@pytest.mark.parametrize("content", [{"model.json": "{}"}, {"report.html": ""}, {"x.txt": ""},
+                                     {MARKER: "{not json"}, {MARKER: '{"written_by": "me"}'}])
+def test_a_folder_without_drifts_marker_is_never_replaced(tmp_path, content):
+    out = tmp_path / "out"
+    out.mkdir()
+    for name, text in content.items():
+        (out / name).write_text(text)
+    with pytest.raises(InputError, match="not a drift output"):
+        _write(out, {"model.json": "new"})
+    assert {p.name: p.read_text() for p in out.iterdir()} == content
+
+
+def test_an_empty_folder_is_used(tmp_path):
+    out = tmp_path / "out"
+    out.mkdir()
+    _write(out, {"a.csv": "1"})
+    assert (out / "a.csv").read_text() == "1"
+
+
+@pytest.mark.parametrize("case, message", [
+    ("same", "is the input"),
+    ("contains", "contains the input"),
+    ("inside", "lies inside the input folder"),
+])
+def test_an_output_never_touches_an_input(tmp_path, case, message):
+    data = tmp_path / "data"
+    data.mkdir()
+    (data / "2021-22.csv").write_text("x")
+    out = {"same": data, "contains": tmp_path, "inside": data / "report"}[case]
+    with pytest.raises(InputError, match=message):
+        check_output_folder(out, inputs=[data])
+    assert (data / "2021-22.csv").read_text() == "x"
+
+
+def test_place_output_never_overwrites_its_model_or_input(tmp_path):
+    model = tmp_path / "model.json"
+    model.write_text("{}")
+    data = tmp_path / "2024-25.csv"
+    data.write_text("player_id,role\n")
+    for target, message in ((model, "is the input"), (data, "is the input"),
+                            (tmp_path / "sub" / ".." / "model.json", "is the input")):
+        with pytest.raises(InputError, match=message):
+            check_output_file(target, inputs=[model, data])
+    folder = tmp_path / "seasons"
+    folder.mkdir()
+    with pytest.raises(InputError, match="lies inside the input folder"):
+        check_output_file(folder / "placed.csv", inputs=[folder])
+
+
+def test_place_output_replaces_only_a_file_drift_wrote(tmp_path):
+    mine = tmp_path / "budget.csv"
+    mine.write_text("item,cost\nball,3\n")
+    with pytest.raises(InputError, match="not a file drift wrote"):
+        with atomic_file(mine) as tmp:
+            tmp.write_text("player_id,role\n")
+    assert mine.read_text() == "item,cost\nball,3\n"
+    ours = tmp_path / "placed.csv"
+    for text in ("player_id,role\nP1,R1\n", "player_id,role\nP2,R2\n"):
+        with atomic_file(ours) as tmp:
+            tmp.write_text(text)
+        assert ours.read_text() == text
+    assert _hidden(tmp_path) == []
+
+
+def test_unwritable_output_is_refused_before_any_work(tmp_path):
+    blocker = tmp_path / "file"
+    blocker.write_text("x")
+    with pytest.raises(InputError, match="is a file, not a folder"):
+        check_output_folder(blocker / "out")
+    with pytest.raises(InputError, match="exists and is a file"):
+        check_output_folder(blocker)
+
+
+_CHILD = textwrap.dedent("""
+    import sys, time
+    sys.path.insert(0, {root!r})
+    from drift.outputs import atomic_folder
+    with atomic_folder(sys.argv[1]) as tmp:
+        for name in ("a.csv", "b.csv", "report.html"):
+            (tmp / name).write_text(sys.argv[2])
+""")
+
+
+def _child(out, text, env_extra):
+    env = {**os.environ, **env_extra}
+    code = _CHILD.format(root=str(ROOT))
+    return subprocess.run([sys.executable, "-c", code, str(out), text], env=env,
+                          capture_output=True, text=True, timeout=60)
+
+
+def _state(out):
+    return {p.name: p.read_text() for p in out.iterdir() if p.is_file() and p.name != MARKER}
+
+
+_STEPS = ["staging", "written", "carried", "swapped"]
+
+
+# the exchange has no step between two renames; the fallback does ("moved-away")
+@pytest.mark.parametrize("point, fallback", [(p, False) for p in _STEPS]
+                         + [(p, True) for p in _STEPS + ["moved-away"]])
+def test_sigkill_at_any_step_keeps_a_complete_output(tmp_path, point, fallback):
+    out = tmp_path / "out"
+    env = {"_DRIFT_TEST_NO_EXCHANGE": "1"} if fallback else {}
+    assert _child(out, "old", env).returncode == 0
+    (out / "notes.txt").write_text("mine")
+    killed = _child(out, "new", {**env, "_DRIFT_TEST_KILL_AT": point})
+    assert killed.returncode == -signal.SIGKILL
+    old = {"a.csv": "old", "b.csv": "old", "report.html": "old", "notes.txt": "mine"}
+    new = {**old, "a.csv": "new", "b.csv": "new", "report.html": "new"}
+    if point != "moved-away":  # between two renames the old output waits beside; see below
+        assert _state(out) == (new if point == "swapped" else old)
+    # the next run restores or keeps the last complete output and cleans the litter it proves its own
+    check_output_folder(out)
+    assert _state(out) == (new if point == "swapped" else old)
+    assert _hidden(tmp_path) == []
+    assert _child(out, "third", env).returncode == 0
+    assert _state(out)["a.csv"] == "third" and _state(out)["notes.txt"] == "mine"
+    assert _hidden(tmp_path) == []
+
+
+def test_litter_of_a_live_run_or_of_unknown_origin_is_left_alone(tmp_path):
+    out = tmp_path / "out"
+    live = tmp_path / f".out.drift-new-{os.getppid()}-abcd1234"
+    live.mkdir()
+    (live / "x.csv").write_text("in progress")
+    stranger = tmp_path / ".out.drift-new-999999999-abcd1234"
+    stranger.mkdir()
+    (stranger / "y.txt").write_text("no marker: not provably ours")
+    _write(out, {"a.csv": "1"})
+    assert (live / "x.csv").exists() and (stranger / "y.txt").exists()
+
+
+_SLOW = textwrap.dedent("""
+    import sys, time
+    sys.path.insert(0, {root!r})
+    from drift.messages import run_guarded
+    from drift.outputs import atomic_folder
+    def job(args):
+        with atomic_folder(sys.argv[1]) as tmp:
+            (tmp / "a.csv").write_text("new")
+            print("ready", flush=True)
+            time.sleep(30)
+        return "done"
+    sys.exit(run_guarded(job, None))
+""")
+
+
+@pytest.mark.parametrize("sig, code", [(signal.SIGINT, 130), (signal.SIGTERM, 143)])
+def test_interrupt_prints_one_line_and_leaves_no_litter(tmp_path, sig, code):
+    out = tmp_path / "out"
+    _write(out, {"a.csv": "old"})
+    proc = subprocess.Popen([sys.executable, "-c", _SLOW.format(root=str(ROOT)), str(out)],
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    assert proc.stdout.readline().strip() == "ready"
+    proc.send_signal(sig)
+    _, err = proc.communicate(timeout=30)
+    assert proc.returncode == code
+    assert err.strip() == "drift: interrupted"
+    assert _state(out) == {"a.csv": "old"} and _hidden(tmp_path) == []
+
+
+def test_cli_run_never_replaces_its_own_data_folder(tmp_path, capsys):
+    from drift.cli import main
+
+    from conftest import small_table
+
+    data = tmp_path / "seasons"
+    data.mkdir()
+    small_table().to_csv(data / "2021-22.csv", index=False)
+    (data / "model.json").write_text("{}")  # last year's model kept beside the data
+    before = {p.name: p.read_bytes() for p in data.iterdir()}
+    assert main(["run", str(data), "--out", str(data)]) == 2
+    assert "is the input" in capsys.readouterr().err
+    assert main(["run", str(data), "--out", str(data / "report")]) == 2
+    assert "lies inside the input folder" in capsys.readouterr().err
+    assert main(["run", str(data / "2021-22.csv"), "--out", str(tmp_path)]) == 2
+    assert "contains the input" in capsys.readouterr().err
+    assert {p.name: p.read_bytes() for p in data.iterdir() if p.is_file()} == before
+
+
+def test_cli_place_never_overwrites_its_model(tmp_path, capsys):
+    from drift.cli import main
+
+    model = tmp_path / "model.json"
+    model.write_text('{"schema": "drift-role-model"}')
+    data = tmp_path / "2024-25.csv"
+    data.write_text("player_id\n")
+    for target in (model, data):
+        assert main(["place", str(model), str(data), "--out", str(target)]) == 2
+        assert "is the input" in capsys.readouterr().err
+    assert model.read_text() == '{"schema": "drift-role-model"}'
