@@ -1,0 +1,112 @@
+"""The simulated-league family: deterministic, varied, truth consistent with the data."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from drift.demo import PLAY_TYPES
+from drift.simulate import (HELD_OUT_START, NAMINGS, PROFILES, LeagueSpec, family, recovery,
+                            season_truth, simulate_league)
+
+SMALL = dict(n_teams=6, roster=12, n_seasons=3)
+
+
+def test_family_is_deterministic_and_varied():
+    a, b = family(60), family(60)
+    assert a == b
+    roles = {s.n_roles for s in a}
+    assert roles == set(range(4, 13))  # every count from 4 to 12 appears in the 60
+    assert any(s.change_rate == 0 for s in a) and any(s.change_rate > 0.05 for s in a)
+    assert {s.naming for s in a} == set(NAMINGS)
+    assert any(not s.possessions for s in a)
+    held = family(5, start=HELD_OUT_START)
+    assert not set(s.seed for s in held) & set(s.seed for s in a)
+
+
+def test_league_rows_and_truth_agree():
+    league = simulate_league(LeagueSpec(n_roles=6, seed=3, **SMALL))
+    rows, truth = league.rows, league.truth
+    assert len(rows) == len(truth)
+    assert (rows["player_id"].to_numpy() == truth["player_id"].to_numpy()).all()
+    assert set(truth["true_role"]) <= set(PROFILES) and truth["true_role"].nunique() == 6
+    shares = rows[[f"share_{t}" for t in PLAY_TYPES]].sum(axis=1)
+    np.testing.assert_allclose(shares, 1.0, atol=2e-3)
+    # a change is only ever flagged for a player seen the season before, with a new role
+    t = season_truth(league).sort_values(["player_id", "season"])
+    prev = t.groupby("player_id")["true_role"].shift()
+    changed = t["changed"].to_numpy(bool)
+    assert changed.sum() > 0
+    assert (prev[changed].notna()).all() and (prev[changed] != t["true_role"][changed]).all()
+    assert (prev[~changed].isna() | (prev[~changed] == t["true_role"][~changed])).all()
+    assert league.rows.drop_duplicates("player_id")["player"].is_unique
+
+
+def test_no_change_league_has_no_changes():
+    league = simulate_league(LeagueSpec(change_rate=0.0, seed=1, **SMALL))
+    assert not league.truth["changed"].any()
+    t = season_truth(league)
+    assert (t.groupby("player_id")["true_role"].nunique() == 1).all()
+
+
+def test_blending_moves_players_toward_their_partner_role():
+    spec = LeagueSpec(n_roles=5, blend=0.45, blend_share=0.5, change_rate=0.0, seed=4,
+                      possessions=True, **SMALL)
+    league = simulate_league(spec)
+    rows = league.rows.assign(role=league.truth["true_role"].to_numpy(),
+                              w=league.truth["blend_weight"].to_numpy(),
+                              partner=league.truth["blend_role"].to_numpy())
+    assert 0 < (rows["w"] > 0).mean() < 1 and rows["w"].max() < 0.45
+    prof = league.profiles.set_index("role")
+    # the blended players' spot-up share sits between their role's and the partner's
+    col = "share_spot_up"
+    heavy = rows[rows["w"] > 0.3]
+    own, other = prof.loc[heavy["role"], col].to_numpy(), prof.loc[heavy["partner"], col].to_numpy()
+    toward = np.sign(other - own) * (heavy[col].to_numpy() - own)
+    assert np.median(toward) > 0
+
+
+@pytest.mark.parametrize("naming", sorted(NAMINGS))
+def test_every_naming_reads_back_through_intake(tmp_path, naming):
+    from drift.api import prepare
+    from drift.config import Config
+
+    league = simulate_league(LeagueSpec(naming=naming, possessions=naming != "short", seed=2, **SMALL))
+    league.write(tmp_path)
+    prepared = prepare(tmp_path, Config(columns=league.columns))
+    assert len(prepared.features) == 30
+    assert ("possessions" in prepared.kept.columns) == (naming != "short")
+    assert (tmp_path / "truth" / "truth.csv").exists()
+    assert set(prepared.kept["player_id"]) <= set(league.truth["player_id"])
+
+
+def test_shorter_seasons_mean_smaller_samples():
+    long = simulate_league(LeagueSpec(sample=1.0, seed=5, **SMALL)).rows["minutes"].median()
+    short = simulate_league(LeagueSpec(sample=0.5, seed=5, **SMALL)).rows["minutes"].median()
+    assert short < 0.6 * long
+
+
+def test_recovery_scores_a_perfect_and_a_blind_run():
+    league = simulate_league(LeagueSpec(n_roles=5, change_rate=0.1, seed=6, **SMALL))
+    truth = season_truth(league)
+    placements = truth.rename(columns={"true_role": "role"})
+    t = truth.sort_values(["player_id", "season"])
+    nxt = t.groupby("player_id").shift(-1)
+    pairs = t[nxt["season"].notna()].assign(season_from=t["season"], season_to=nxt["season"],
+                                            real=t["true_role"] != nxt["true_role"])
+    moves = pd.DataFrame({"kind": "consecutive", "player_id": pairs["player_id"],
+                          "season_from": pairs["season_from"], "season_to": pairs["season_to"],
+                          "role_changed": pairs["real"], "p_value": np.where(pairs["real"], 0.0, 0.5)})
+    perfect = recovery(placements, moves, truth)
+    assert perfect["ari"] == 1.0 and perfect["f1"] == 1.0 and perfect["false_flag"] == 0.0
+    assert perfect["n_roles"] == perfect["true_roles"] == 5 and perfect["beyond_0.05"] == 0.0
+    blind = recovery(placements.assign(role="R1"), moves.assign(role_changed=False), truth)
+    assert blind["ari"] == 0.0 and blind["recall"] == 0.0 and np.isnan(blind["precision"])
+
+
+def test_spec_refuses_impossible_settings():
+    with pytest.raises(ValueError, match="n_roles"):
+        LeagueSpec(n_roles=13)
+    with pytest.raises(ValueError, match="blend"):
+        LeagueSpec(blend=0.6)
