@@ -56,6 +56,24 @@ class Analysis:
     backtest: object = None
 
 
+def one_thread(func):
+    """Run ``func`` with the math libraries (BLAS, OpenMP) on one thread.
+
+    Sums split across threads add up in another order, which changes the last digits of
+    K-means and matrix products; on one thread a run writes the same bytes on any machine,
+    whatever its number of cores or ``OMP_NUM_THREADS``.
+    """
+    import functools
+
+    @functools.wraps(func)
+    def wrapper(*args, **kwargs):
+        from threadpoolctl import threadpool_limits
+
+        with threadpool_limits(limits=1):
+            return func(*args, **kwargs)
+    return wrapper
+
+
 def _missing_table(seasons, spec, filled):
     import pandas as pd
 
@@ -134,6 +152,7 @@ def reference_pool(prepared: Prepared, reference=None):
     return pool
 
 
+@one_thread
 def fit_model(prepared: Prepared, config: Config | None = None):
     """Fit the reference model on the pool chosen by ``config.reference``."""
     from .model import RoleModel
@@ -152,6 +171,7 @@ def fit_model(prepared: Prepared, config: Config | None = None):
         raise InputError(str(exc)) from None
 
 
+@one_thread
 def analyse(prepared: Prepared, model, config: Config | None = None, *, alignment=None) -> Analysis:
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
@@ -251,6 +271,7 @@ def check_seasons(prepared: Prepared, config: Config) -> None:
                 raise InputError(f"--compare season {s!r} is not in the data; available: {available}")
 
 
+@one_thread
 def run(data, out, config: Config | None = None, *, previous=None, inputs=()) -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
@@ -298,6 +319,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
     return analysis
 
 
+@one_thread
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
                 min_minutes_per_game=None, inputs=()):
     """Place season files with a saved model and write one CSV.

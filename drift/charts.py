@@ -19,7 +19,8 @@ _STATUS_COLOURS = {"changed": "#a8435a", "unsettled": "#b59a2a", "shifted": "#2f
 #: matplotlib settings for drift's charts, applied only inside ``rc_context`` while a chart is
 #: drawn and saved, so a caller's own backend and style are never touched.
 STYLE = {"svg.hashsalt": "drift", "font.size": 9, "axes.spines.top": False,
-         "axes.spines.right": False, "svg.fonttype": "none"}
+         "axes.spines.right": False, "svg.fonttype": "none",
+         "text.parse_math": False}  # a "$" in a name is text, never math
 
 
 def _styled(draw):

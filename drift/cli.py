@@ -172,8 +172,11 @@ def _place(args):
 
 def _demo(args):
     from .demo import generate_league, write_league
+    from .outputs import atomic_folder
 
-    files = write_league(args.out, generate_league(args.seed))
+    league = generate_league(args.seed)
+    with atomic_folder(args.out) as tmp:  # never over a folder of real seasons
+        files = write_league(tmp, league)
     return f"drift: wrote {len(files)} season files and the truth to {args.out}"
 
 

@@ -100,10 +100,26 @@ def _read_marker(folder: Path):
     if (not isinstance(data, dict) or data.get("written_by") != "drift"
             or data.get("state") not in ("staging", "complete")
             or not isinstance(data.get("files"), list)
-            or not all(isinstance(f, str) and f and "/" not in f and f not in (".", "..")
-                       for f in data["files"])):
+            or not all(isinstance(f, str) and _safe_relative(f) for f in data["files"])):
         return None
     return data
+
+
+def _safe_relative(path: str) -> bool:
+    parts = path.split("/")
+    return bool(path) and not path.startswith("/") and all(p not in ("", ".", "..") for p in parts)
+
+
+def _files_under(folder: Path, rel="") -> list:
+    """Relative paths ('a.csv', 'truth/t.csv') of the regular files drift wrote under ``folder``."""
+    found = []
+    for entry in sorted(folder.iterdir()):
+        r = rel + entry.name
+        if entry.is_dir() and not entry.is_symlink():
+            found += _files_under(entry, r + "/")
+        elif entry.is_file() and not entry.is_symlink() and r != MARKER:
+            found.append(r)
+    return found
 
 
 def _write_marker(folder: Path, state: str, files=()):
@@ -122,18 +138,19 @@ def _twins(a: Path, b: Path) -> bool:
     return (sa.st_dev, sa.st_ino) == (sb.st_dev, sb.st_ino)
 
 
-def _remove_owned(folder: Path, owned, twin_root) -> None:
+def _remove_owned(folder: Path, owned, twin_root, rel="") -> None:
     """Remove from ``folder`` only what drift can prove is its own, then the folder if empty.
 
-    ``owned`` is a set of names, or None for a staging folder (every regular file in it was
-    written by drift). Anything else is removed only when ``twin_root`` holds its twin.
+    ``owned`` is a set of relative paths, or None for a staging folder (every regular file in
+    it was written by drift). Anything else is removed only when ``twin_root`` holds its twin.
     """
     for entry in list(folder.iterdir()):
+        r = rel + entry.name
         twin = twin_root / entry.name if twin_root is not None else None
         if entry.is_dir() and not entry.is_symlink():
-            _remove_owned(entry, set(), twin)
+            _remove_owned(entry, owned, twin, r + "/")
             continue
-        mine = (entry.name == MARKER or (owned is not None and entry.name in owned)
+        mine = ((r == MARKER) or (owned is not None and r in owned)
                 or (owned is None and entry.is_file() and not entry.is_symlink()))
         if mine or (twin is not None and _twins(entry, twin)):
             entry.unlink()
@@ -199,7 +216,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
     Returns
     -------
     dict
-        ``owned`` (names drift wrote there before) and ``foreign`` (everything else).
+        ``owned`` (relative paths of the files drift wrote there before).
 
     Raises
     ------
@@ -213,7 +230,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
     if out.is_symlink():
         raise InputError("--out is a symbolic link; give the folder itself", file=out)
     if not out.exists():
-        return {"owned": set(), "foreign": set()}
+        return {"owned": set()}
     if not out.is_dir():
         raise InputError("--out exists and is a file; give a folder", file=out)
     if not os.access(out, os.W_OK | os.X_OK):
@@ -224,28 +241,40 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
         if present or (out / MARKER).exists():
             raise InputError(f"--out is a non-empty folder that is not a drift output (no valid {MARKER}); "
                              "give a new or empty folder", file=out)
-        return {"owned": set(), "foreign": set()}
-    owned = set(marker["files"]) & present
-    foreign = present - owned
-    clash = sorted(foreign & set(names))
+        return {"owned": set()}
+    owned = set(marker["files"])
+    clash = sorted(n for n in set(names) - owned if os.path.lexists(out / n))
     if clash:
         raise InputError(f"--out holds {', '.join(clash)}, which drift did not write there; move it "
                          "away or choose another folder", file=out)
-    return {"owned": owned, "foreign": foreign}
+    return {"owned": owned}
 
 
-def _carry(src: Path, dst: Path) -> None:
-    """Recreate ``src`` at ``dst`` with hard links (files), new folders and equal symlinks."""
-    if src.is_symlink():
-        os.symlink(os.readlink(src), dst)
-    elif src.is_dir():
-        dst.mkdir()
-        for entry in src.iterdir():
-            _carry(entry, dst / entry.name)
-    elif src.is_file():
-        os.link(src, dst)
-    else:
-        raise InputError("--out holds a special file drift cannot keep; move it away", file=src)
+def _carry(src: Path, dst: Path, owned, rel="") -> None:
+    """Recreate in ``dst`` what ``src`` holds that drift does not own: files as hard links,
+    symbolic links as equal links, folders as folders. A name taken by a new output is refused.
+    """
+    for entry in sorted(src.iterdir()):
+        r = rel + entry.name
+        target = dst / entry.name
+        if entry.is_dir() and not entry.is_symlink():
+            if os.path.lexists(target) and not (target.is_dir() and not target.is_symlink()):
+                raise InputError(f"--out holds the folder {r}, which drift did not write there and "
+                                 "now writes a file of that name; move it away", file=src)
+            target.mkdir(exist_ok=True)
+            _carry(entry, target, owned, r + "/")
+            continue
+        if r == MARKER or r in owned:
+            continue
+        if os.path.lexists(target):
+            raise InputError(f"--out holds {r}, which drift did not write there; move it away "
+                             "or choose another folder", file=src)
+        if entry.is_symlink():
+            os.symlink(os.readlink(entry), target)
+        elif entry.is_file():
+            os.link(entry, target)
+        else:
+            raise InputError(f"--out holds {r}, a special file drift cannot keep; move it away", file=src)
 
 
 _EXCHANGE = None
@@ -293,14 +322,13 @@ def _staging(out: Path, kind: str) -> Path:
 
 
 def _commit(tmp: Path, out: Path, inputs) -> None:
-    state = check_output_folder(out, inputs=inputs, names={p.name for p in tmp.iterdir()})
-    _write_marker(tmp, "complete", [p.name for p in tmp.iterdir() if p.name != MARKER])
+    state = check_output_folder(out, inputs=inputs, names=_files_under(tmp))
+    _write_marker(tmp, "complete", _files_under(tmp))
     with _signals_held():
         if not out.exists():
             os.rename(tmp, out)
             return
-        for name in sorted(state["foreign"]):
-            _carry(out / name, tmp / name)
+        _carry(out, tmp, state["owned"])
         _test_point("carried")
         if _exchange(tmp, out):
             old = tmp

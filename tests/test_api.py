@@ -33,3 +33,24 @@ def test_run_returns_the_analysis_and_writes(tmp_path):
                                                              reference=("2023-24", "2024-25")))
     assert (tmp_path / "out" / "report.html").exists()
     assert len(analysis.model.role_ids_) == 4 and len(analysis.placements) > 1500
+
+
+def test_fitting_and_placing_run_the_math_libraries_on_one_thread(demo_prepared, monkeypatch):
+    # the last digits of K-means and BLAS sums depend on the thread count; one thread makes
+    # outputs byte-identical across machines (README, "Outputs")
+    from threadpoolctl import threadpool_info, threadpool_limits
+
+    from drift import api
+    from drift.model import RoleModel
+
+    seen = []
+    real_fit = RoleModel.fit
+
+    def spy(self, *args, **kwargs):
+        seen.append({pool["num_threads"] for pool in threadpool_info()})
+        return real_fit(self, *args, **kwargs)
+
+    monkeypatch.setattr(RoleModel, "fit", spy)
+    with threadpool_limits(limits=2):
+        api.fit_model(demo_prepared, api.Config(roles=3, components=3, reference=("2024-25",)))
+    assert seen == [{1}]

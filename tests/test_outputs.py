@@ -254,3 +254,29 @@ def test_cli_place_never_overwrites_its_model(tmp_path, capsys):
         assert main(["place", str(model), str(data), "--out", str(target)]) == 2
         assert "is the input" in capsys.readouterr().err
     assert model.read_text() == '{"schema": "drift-role-model"}'
+
+
+def test_owned_files_in_subfolders(tmp_path):
+    out = tmp_path / "out"
+    with atomic_folder(out) as tmp:
+        (tmp / "truth").mkdir()
+        (tmp / "truth" / "old.csv").write_text("old")
+        (tmp / "a.csv").write_text("old")
+    assert json.loads((out / MARKER).read_text())["files"] == ["a.csv", "truth/old.csv"]
+    (out / "truth" / "mine.txt").write_text("mine")
+    with atomic_folder(out) as tmp:
+        (tmp / "truth").mkdir()
+        (tmp / "truth" / "new.csv").write_text("new")
+    assert sorted(p.name for p in (out / "truth").iterdir()) == ["mine.txt", "new.csv"]
+    assert not (out / "a.csv").exists() and _hidden(tmp_path) == []
+
+
+def test_demo_never_writes_over_a_folder_of_seasons(tmp_path, capsys):
+    from drift.cli import main
+
+    seasons = tmp_path / "seasons"
+    seasons.mkdir()
+    (seasons / "2021-22.csv").write_text("real data")
+    assert main(["demo", "--out", str(seasons)]) == 2
+    assert "not a drift output" in capsys.readouterr().err
+    assert (seasons / "2021-22.csv").read_text() == "real data"
