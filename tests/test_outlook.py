@@ -8,8 +8,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from drift.outlook import (OUTLOOK_COLUMNS, RoleOutlook, backtest, calibration_table, history_table,
-                           naive_proba)
+from drift.backtest import backtest, calibration_table, naive_proba, scores
+from drift.outlook import OUTLOOK_COLUMNS, RoleOutlook, history_table
 
 
 def markov_league(stay=0.9, n_players=300, n_seasons=5, seed=0):
@@ -84,12 +84,10 @@ def test_backtest_beats_the_naive_forecast_on_a_league_with_between_players():
 def test_scores_match_scikit_learn():
     from sklearn.metrics import log_loss
 
-    from drift.outlook import _scores
-
     rng = np.random.default_rng(4)
     prob = rng.dirichlet(np.ones(4), 50)
     truth = rng.integers(0, 4, 50)
-    ll, brier = _scores(prob, truth, 0.5)
+    ll, brier = scores(prob, truth)
     # source: scikit-learn's log_loss (reference library)
     assert ll == pytest.approx(log_loss(truth, prob, labels=[0, 1, 2, 3]))
     assert brier == pytest.approx(((prob - np.eye(4)[truth]) ** 2).sum(axis=1).mean())
