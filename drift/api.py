@@ -13,7 +13,7 @@ from pathlib import Path
 from .config import Config
 from .errors import InputError
 
-__all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files",
+__all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
            "write_outputs"]
 
 
@@ -365,3 +365,76 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
             write_csv(prepared.excluded, tmp)
     placements.attrs["excluded"] = prepared.excluded
     return placements
+
+
+#: games a partial season needs to be checked (fewer say nothing; "too early" covers the rest)
+INSEASON_MIN_GAMES = 5
+
+
+#: every file the in-season check may write into its output folder (besides the marker)
+INSEASON_FILES = ("inseason.csv", "inseason_excluded.csv", "inseason.html")
+
+
+def check_files(model_path, partial, against, out, config: Config | None = None, *, min_games=None,
+                min_minutes_per_game=None, alpha=None, season_games=82, inputs=()):
+    """The in-season check: partial-season files against full seasons, written to a folder.
+
+    Parameters
+    ----------
+    model_path : path
+        A ``model.json``.
+    partial, against : path or list of paths
+        The season under way, and earlier full seasons (files or folders).
+    out : path
+        Folder for ``inseason.csv``, ``inseason.html`` and ``inseason_excluded.csv``.
+    min_games, min_minutes_per_game : optional
+        Filters of the partial season (default 5 games and the model's minutes per game);
+        the full seasons use the model's filters.
+    alpha : float, optional
+        Level for "beyond noise" (default ``config.alpha``).
+    season_games : int
+        Games in a full season (horizon of ``games_to_conclusive``).
+    inputs : paths, optional
+        Other files the output must not touch (the CLI passes the config file).
+
+    Returns
+    -------
+    DataFrame
+        The checks (see README, "In-season check"); ``.attrs["excluded"]`` the rows not checked.
+    """
+    import pandas as pd
+
+    from .inseason import check_partial
+    from .inseason_page import write_page
+    from .model import RoleModel
+    from .outputs import atomic_folder, check_output_folder
+    from .safecsv import write_csv
+
+    guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
+    check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
+    model = RoleModel.load(model_path)
+    intake = model.intake_
+    base = (config or Config()).replace(min_games=intake["min_games"],
+                                        min_minutes_per_game=intake["min_minutes_per_game"],
+                                        total_marker=intake.get("total_marker"))
+    part_config = base.replace(
+        min_games=min_games if min_games is not None else INSEASON_MIN_GAMES,
+        min_minutes_per_game=(min_minutes_per_game if min_minutes_per_game is not None
+                              else intake["min_minutes_per_game"]))
+    part = prepare(partial, part_config)
+    full = prepare(against, base)
+    for prepared in (part, full):
+        model.check_features(prepared.features)
+    alpha = alpha if alpha is not None else base.alpha
+    checks, unmatched = check_partial(model, part.kept, full.kept, alpha=alpha, season_games=season_games)
+    excluded = pd.concat([part.excluded, unmatched.assign(reason="no earlier qualifying season in the "
+                                                                 "--against data")[
+        [c for c in part.excluded.columns if c in unmatched.columns] + ["reason"]]], ignore_index=True)
+    with atomic_folder(out, inputs=guarded) as tmp:
+        write_csv(checks, tmp / "inseason.csv")
+        write_csv(excluded, tmp / "inseason_excluded.csv")
+        write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,
+                   n_excluded=len(excluded))
+    checks.attrs["excluded"] = excluded
+    return checks
+

@@ -13,6 +13,7 @@ _RUN_EXAMPLE = """example:
 """
 _PLACE_EXAMPLE = """example:
   drift place drift-report/model.json current/2025-26.csv --out early.csv --min-games 10
+  drift place drift-report/model.json current/2025-26.csv --against seasons/ --out early-check
 """
 _DEMO_EXAMPLE = """example:
   drift demo --out my_demo --seed 7
@@ -116,13 +117,21 @@ def build_parser() -> argparse.ArgumentParser:
                            epilog=_PLACE_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     place.add_argument("model", help="model.json written by drift run")
     place.add_argument("files", nargs="+", help="season files or folders")
-    place.add_argument("--out", required=True, metavar="FILE", help="CSV of placements to write")
+    place.add_argument("--out", required=True, metavar="FILE|DIR",
+                       help="CSV of placements to write (with --against: a folder)")
     _add_intake_options(place)
+    place.add_argument("--against", nargs="+", metavar="DATA",
+                       help="full seasons to check the files against (in-season check; default 5 games)")
+    place.add_argument("--alpha", type=float, help="with --against: level for 'beyond noise' (default 0.01)")
+    place.add_argument("--season-games", type=int, default=82, metavar="N",
+                       help="with --against: games in a full season (default 82)")
 
     demo = sub.add_parser("demo", help="write the fictional demo league",
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
     demo.add_argument("--seed", type=int, default=2024, help="seed of the league (default 2024)")
+    demo.add_argument("--partial-games", type=int, metavar="N",
+                      help="also write the first N games of the next season to DIR/partial/")
     for p in (run, place, demo):  # --debug also after the command name
         p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=argparse.SUPPRESS)
     return parser
@@ -153,8 +162,23 @@ def _run(args):
             f"roles; {changed} role changes beyond noise; report: {args.out}/report.html")
 
 
+def _check(args):
+    from .api import check_files
+
+    checks = check_files(args.model, args.files, args.against, args.out, _config(args),
+                         min_games=args.min_games, min_minutes_per_game=args.min_minutes, alpha=args.alpha,
+                         season_games=args.season_games, inputs=[args.config] if args.config else ())
+    counts = checks["status"].value_counts()
+    shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
+    return (f"drift: checked {len(checks)} players against their last season ({shown or 'none beyond noise'}); "
+            f"page: {args.out}/inseason.html")
+
+
 def _place(args):
     from .api import place_files
+
+    if args.against:
+        return _check(args)
 
     placements = place_files(args.model, args.files, args.out, _config(args),
                              min_games=args.min_games, min_minutes_per_game=args.min_minutes,
@@ -174,7 +198,7 @@ def _demo(args):
     from .demo import generate_league, write_league
     from .outputs import atomic_folder
 
-    league = generate_league(args.seed)
+    league = generate_league(args.seed, partial_games=args.partial_games)
     with atomic_folder(args.out) as tmp:  # never over a folder of real seasons
         files = write_league(tmp, league)
     return f"drift: wrote {len(files)} season files and the truth to {args.out}"

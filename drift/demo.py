@@ -80,6 +80,7 @@ class DemoLeague:
     rows: object   # DataFrame, one row per player-season-team (stint)
     truth: object  # DataFrame: player_id, season, team, stint, true_role, changed, between
     roles: object  # DataFrame: archetype definitions in feature units
+    partial_season: str | None = None  # label of a season played only in part (see partial_games)
 
 
 class _Player:
@@ -170,7 +171,8 @@ def _minutes_for(tier, rng):
 
 def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 20,
                     change_rate: float = 0.06, trade_rate: float = 0.12,
-                    midseason_rate: float = 0.04, between_rate: float = 0.15) -> DemoLeague:
+                    midseason_rate: float = 0.04, between_rate: float = 0.15,
+                    partial_games: int | None = None) -> DemoLeague:
     """Generate the fictional league.
 
     Parameters
@@ -186,6 +188,10 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
         Chance of an off-season move, and of a mid-season trade (two stints).
     between_rate : float
         Share of players whose style sits between two roles.
+    partial_games : int, optional
+        Also play the first ``partial_games`` games of the season after the last
+        (same players, same minutes per game, no mid-season trades): the league
+        before it is unchanged, so a partial season can be checked against it.
 
     Returns
     -------
@@ -195,6 +201,10 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
     import pandas as pd
 
     rng = np.random.default_rng(seed)
+    partial_season = None
+    if partial_games is not None:
+        partial_season = _next_season(seasons[-1])
+        seasons = (*seasons, partial_season)
     teams = [code for code, _ in _TEAMS[:n_teams]]
     role_names = list(ARCHETYPES)
     role_p = np.array([0.10, 0.16, 0.22, 0.16, 0.13, 0.10, 0.13])
@@ -242,9 +252,11 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
                 tier = 0 if rank < 5 else 1 if rank < 11 else 2
                 games, minutes = _minutes_for(tier, rng)
                 changed = bool(getattr(p, "changed", False))
-                if rng.random() < midseason_rate and games >= 30:
+                if rng.random() < midseason_rate and games >= 30 and season != partial_season:
                     midseason.append((t, p, tier))
                     continue
+                if season == partial_season and games > partial_games:
+                    games, minutes = partial_games, minutes * partial_games / games
                 rows.append({"player_id": p.pid, "player": p.name, "team": t, "season": season,
                              **_observe(p, games, minutes, rng, s_index)})
                 truth.append({"player_id": p.pid, "season": season, "team": t, "stint": 0,
@@ -276,19 +288,32 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
     roles = pd.DataFrame(
         [{"role": r, **{f"share_{t}": v for t, v in zip(PLAY_TYPES, a[0])},
           **dict(zip(RATES, a[1])), **dict(zip(SHOOTING, a[2]))} for r, a in ARCHETYPES.items()])
-    return DemoLeague(rows=frame, truth=pd.DataFrame(truth), roles=roles)
+    return DemoLeague(rows=frame, truth=pd.DataFrame(truth), roles=roles, partial_season=partial_season)
+
+
+def _next_season(label: str) -> str:
+    """"2024-25" -> "2025-26"; "2024" -> "2025"."""
+    head, _, tail = label.partition("-")
+    if not tail:
+        return str(int(head) + 1)
+    return f"{int(head) + 1}-{(int(tail) + 1) % 10 ** len(tail):0{len(tail)}d}"
 
 
 def write_league(folder, league: DemoLeague | None = None) -> list:
-    """Write one CSV per season into ``folder`` (season in the file name) and the truth beside it."""
+    """Write one CSV per season into ``folder`` (season in the file name) and the truth beside it.
+
+    A partial season goes to ``folder/partial/`` so that a run on ``folder`` leaves it out.
+    """
     from pathlib import Path
 
     league = league or generate_league()
     folder = Path(folder)
     (folder / "truth").mkdir(parents=True, exist_ok=True)
+    if league.partial_season is not None:
+        (folder / "partial").mkdir(exist_ok=True)
     written = []
     for season, block in league.rows.groupby("season", sort=True):
-        path = folder / f"{season}.csv"
+        path = folder / ("partial" if season == league.partial_season else "") / f"{season}.csv"
         block.drop(columns="season").to_csv(path, index=False)
         written.append(path)
     league.truth.to_csv(folder / "truth" / "truth.csv", index=False)
