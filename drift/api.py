@@ -23,7 +23,11 @@ class Prepared:
 
     ``seasons``: every combined player-season; ``kept``: those passing the filters;
     ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
-    players; ``missing``: per-feature counts of missing values and what was done.
+    players; ``missing``: per-feature counts of missing values and what was done;
+    ``columns``: how each export column was understood, one row per file and column
+    (``file, column, role, drift_name, family, play_type, unit, how, note``; see
+    :mod:`drift.intake_report`); ``notes``: every conversion and intake warning, one line
+    each; ``units``: feature -> unit as read.
     """
 
     seasons: object
@@ -34,6 +38,9 @@ class Prepared:
     missing: object
     files: tuple
     ignored_columns: tuple
+    columns: object = None
+    notes: tuple = ()
+    units: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -135,7 +142,8 @@ def prepare(data, config: Config | None = None) -> Prepared:
         frame.attrs["features"] = raw.features
     return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
                     features=raw.features, missing=missing, files=raw.files,
-                    ignored_columns=raw.ignored_columns)
+                    ignored_columns=raw.ignored_columns, columns=raw.columns, notes=raw.notes,
+                    units=dict(raw.units or {}))
 
 
 def reference_pool(prepared: Prepared, reference=None):

@@ -10,6 +10,19 @@ A config file has up to five tables; every key is optional::
     total_marker = "TOT"         # team value of a combined row for a traded player
     features = ["share_spotup"]  # use exactly these features ...
     exclude = ["age"]            # ... or every numeric column but these
+    sheet = "Players"            # the Excel sheet to read (default: the one with the columns)
+    play_types = { DRV = "drive" }   # more play-type spellings
+
+    [intake.read]                # column or pattern -> what it is
+    "*_PERCENTILE" = "ignore"
+    "HUSTLE" = "rate"
+    "DRV_F" = "share:drive"
+
+    [intake.units]               # drift name -> unit, when drift cannot tell
+    minutes = "per_game"
+
+    [intake.rename]              # drift's feature name -> yours
+    usage_pct = "usg"
 
     [filters]
     min_games = 20
@@ -63,6 +76,11 @@ class Config:
     total_marker: str | None = "TOT"
     features: tuple | None = None
     exclude: tuple = ()
+    sheet: str | None = None
+    read: dict = field(default_factory=dict)
+    units: dict = field(default_factory=dict)
+    rename: dict = field(default_factory=dict)
+    play_types: dict = field(default_factory=dict)
     min_games: int = 20
     min_minutes_per_game: float = 10.0
     min_stint_games: int = 10
@@ -102,6 +120,7 @@ class Config:
             raise ConfigError(f"alpha={self.alpha} must be between 0 and 1")
         if self.compare is not None and len(self.compare) != 2:
             raise ConfigError(f"compare needs exactly two seasons, got {list(self.compare)}")
+        _check_intake_rules(self)
         unknown = set(self.columns) - set(STANDARD_COLUMNS)
         if unknown:
             raise ConfigError(
@@ -113,9 +132,37 @@ class Config:
         return dataclasses.replace(self, **{k: v for k, v in changes.items() if v is not None})
 
 
+def _check_intake_rules(config):
+    """Validate the column-reading rules of [intake] (see drift.columns, drift.units)."""
+    from .columns import parse_read_rule, understand_columns
+    from .units import UNIT_WORDS
+
+    for pattern, spec in config.read.items():
+        try:
+            parse_read_rule(spec)
+        except ValueError as exc:
+            raise ConfigError(f"[intake.read] {pattern!r}: {exc}") from None
+    for name, unit in config.units.items():
+        allowed = ("total", "per_game") if name in ("minutes", "possessions") else ("percent", "fraction")
+        if unit not in allowed or unit not in UNIT_WORDS:
+            raise ConfigError(f"[intake.units] {name} = {unit!r}: give one of {', '.join(allowed)}")
+    for old, new in config.rename.items():
+        if not str(new).strip():
+            raise ConfigError(f"[intake.rename] {old} = {new!r}: give a name")
+        before = understand_columns([old], Config())[0]
+        after = understand_columns([new], Config())[0]
+        if {before.family, after.family} & {"share", "efficiency"} and (before.family, before.play_type) != (
+                after.family, after.play_type):
+            raise ConfigError(f"[intake.rename] {old} = {new!r}: a play-type feature keeps its form "
+                              f"(share_<type> or ppp_<type>) so its sample stays linked; rename the play type "
+                              "under [intake] play_types instead")
+    if config.sheet is not None and not str(config.sheet).strip():
+        raise ConfigError("[intake] sheet must name a sheet")
+
+
 _SECTIONS = {
     "columns": None,
-    "intake": {"total_marker", "features", "exclude"},
+    "intake": {"total_marker", "features", "exclude", "sheet", "read", "units", "rename", "play_types"},
     "filters": {"min_games", "min_minutes_per_game", "min_stint_games"},
     "model": {"reference", "components", "variance_threshold", "roles", "max_roles",
               "noise_policy", "seed"},
@@ -158,6 +205,10 @@ def load_config(path=None) -> Config:
                     f"{path}: unknown key '{key}' in [{section}]; allowed: {', '.join(sorted(allowed))}")
             if section == "roles":
                 values["role_names"] = {str(k): str(v) for k, v in value.items()}
+            elif key in ("read", "units", "rename", "play_types"):
+                if not isinstance(value, dict):
+                    raise ConfigError(f"{path}: [{section}] {key} must be a table like [intake.{key}]")
+                values[key] = {str(k): str(v) for k, v in value.items()}
             elif key in ("features", "exclude", "reference", "compare"):
                 values[key] = tuple(str(v) for v in value)
             else:

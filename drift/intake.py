@@ -1,35 +1,52 @@
 """Intake: read season tables into one tidy table of player-season-team rows.
 
+Each file is read by :mod:`drift.readers` (CSV shape checks, Excel sheets and
+header rows), each column name is understood by :mod:`drift.columns`, each
+column's cells are parsed once by :mod:`drift.cells`, and units are checked by
+:mod:`drift.units`. Nothing is dropped or converted without a line saying so in
+:attr:`RawSeasons.notes`, and every column's reading is in :attr:`RawSeasons.columns`.
+
 Stage output (:class:`RawSeasons`): one row per row of the input files with
 drift's standard column names, float features, and where each row came from
 (``source_file``, ``source_row``; rows are numbered as a spreadsheet shows
-them, the header being row 1).
+them, the header being row 1 of a CSV).
 """
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from pathlib import Path
 
 from .config import REQUIRED_COLUMNS, STANDARD_COLUMNS, Config
 from .errors import InputError
 
-__all__ = ["RawSeasons", "read_seasons", "SUPPORTED_SUFFIXES"]
+__all__ = ["RawSeasons", "read_seasons", "SUPPORTED_SUFFIXES", "COLUMN_TABLE_FIELDS"]
 
 SUPPORTED_SUFFIXES = (".csv", ".xlsx", ".parquet")
-_SEASON_IN_NAME = re.compile(r"(\d{4}(?:[-_]\d{2,4})?)")
+_TEXT = ("player_id", "player", "season", "team")
 _NUMERIC = ("games", "minutes", "possessions", "stint")
+#: columns of :attr:`RawSeasons.columns`
+COLUMN_TABLE_FIELDS = ("file", "column", "role", "drift_name", "family", "play_type", "unit", "how", "note")
 
 
 @dataclass(frozen=True)
 class RawSeasons:
-    """Rows as read. ``table`` columns: standard columns present, features, source_file, source_row."""
+    """Rows as read.
+
+    ``table``: standard columns present, features, source_file, source_row.
+    ``features``: feature names in order. ``files``: the files read.
+    ``ignored_columns``: export columns not used (any reason). ``columns``: one row
+    per file and column with :data:`COLUMN_TABLE_FIELDS` (how it was understood).
+    ``notes``: conversions and warnings, one line each. ``units``: feature -> unit.
+    """
 
     table: object  # pandas.DataFrame
     features: tuple
     files: tuple
     ignored_columns: tuple
+    columns: object = None
+    notes: tuple = ()
+    units: dict | None = None
 
 
 def _files_of(paths) -> list[Path]:
@@ -39,7 +56,8 @@ def _files_of(paths) -> list[Path]:
         if not p.exists():
             raise InputError("path not found; give a season file or a folder of them", file=p)
         if p.is_dir():
-            found = sorted(f for f in p.iterdir() if f.is_file() and f.suffix.lower() in SUPPORTED_SUFFIXES)
+            found = sorted(f for f in p.iterdir() if f.is_file() and f.suffix.lower() in SUPPORTED_SUFFIXES
+                           and not f.name.startswith(("~$", ".")))
             if not found:
                 raise InputError(
                     f"folder holds no season files ({', '.join(SUPPORTED_SUFFIXES)})", file=p)
@@ -52,98 +70,115 @@ def _files_of(paths) -> list[Path]:
     return files
 
 
-def _read_one(path: Path):
-    import pandas as pd
+def _plan(config):
+    from .columns import understand_columns
 
-    suffix = path.suffix.lower()
-    try:
-        if suffix == ".csv":
-            frame = pd.read_csv(path, dtype=str, keep_default_na=False, na_values=[""],
-                                skipinitialspace=True)
-        elif suffix == ".xlsx":
-            frame = pd.read_excel(path, dtype=object)
-        else:
-            try:
-                frame = pd.read_parquet(path)
-            except ImportError:
-                raise InputError("reading Parquet needs pyarrow: pip install 'drift[parquet]'",
-                                 file=path) from None
-    except InputError:
-        raise
-    except pd.errors.EmptyDataError:
-        raise InputError("file is empty; remove it or add its season's rows", file=path) from None
-    except Exception as exc:  # any reader failure is the user's file, not our bug
-        reason = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
-        raise InputError(f"cannot read file ({reason}); check it opens and is not corrupt",
-                         file=path) from None
-    frame.columns = [str(c).strip() for c in frame.columns]
-    return frame
+    def text_columns(names):
+        return {r.source for r in understand_columns(names, config) if r.role == "standard" and r.name in _TEXT}
+
+    def recognise(names):
+        return {r.name for r in understand_columns(names, config) if r.role == "standard"}
+
+    return text_columns, recognise
 
 
-def _season_from_name(path: Path) -> str:
-    match = _SEASON_IN_NAME.search(path.stem)
-    return match.group(1) if match else path.stem
+def _refuse_clashes(readings, where):
+    by_name = {}
+    for r in readings:
+        if r.role in ("standard", "feature", "unknown"):
+            by_name.setdefault(r.name, []).append(r.source)
+    for name, sources in by_name.items():
+        if len(sources) > 1:
+            raise InputError(
+                f"columns {sources} would all be read as {name!r}; keep one, or say which is which in the "
+                "config ([columns] for drift's own columns, [intake.read] or [intake] exclude for features)",
+                file=where)
 
 
-def _to_numeric(frame, column: str, path: Path):
-    import numpy as np
-    import pandas as pd
-
-    values = frame[column]
-    as_text = values.astype("string").str.strip()
-    numbers = pd.to_numeric(as_text, errors="coerce").astype(float)
-    bad = as_text.notna() & numbers.isna()
-    if bad.any():
-        i = int(np.flatnonzero(bad.to_numpy())[0])
-        raise InputError(
-            f"value {as_text.iloc[i]!r} is not a number; this column must be numeric "
-            "(leave the cell empty for a missing value)",
-            file=path, row=i + 2, column=column)
-    infinite = np.isinf(numbers.to_numpy())
-    if infinite.any():
-        i = int(np.flatnonzero(infinite)[0])
-        raise InputError(f"value {as_text.iloc[i]!r} is infinite; give a finite number or leave it empty",
-                         file=path, row=i + 2, column=column)
-    return numbers
-
-
-def _numeric_share(series) -> float:
-    import pandas as pd
-
-    text = series.astype("string").str.strip().dropna()
-    if text.empty:
-        return 1.0
-    return float(pd.to_numeric(text, errors="coerce").notna().mean())
-
-
-def _standardise(frame, path: Path, config: Config):
-    rename = {theirs: ours for ours, theirs in config.columns.items() if theirs in frame.columns}
-    frame = frame.rename(columns=rename)
-    if "season" not in frame.columns:
-        frame["season"] = _season_from_name(path)
-    missing = [c for c in REQUIRED_COLUMNS if c not in frame.columns]
+def _require(readings, frame, table):
+    where = table.where
+    present = {r.name for r in readings if r.role == "standard"}
+    missing = [c for c in REQUIRED_COLUMNS if c not in present and not (c == "season" and table.name_season)]
+    if missing == ["season"]:
+        raise InputError(table.name_problem, file=where)
     if missing:
         hint = ", ".join(f'{m} = "..."' for m in missing)
-        found = ", ".join(list(frame.columns)[:12]) + (", ..." if len(frame.columns) > 12 else "")
+        cols = list(frame.columns)
+        found = ", ".join(cols[:12]) + (", ..." if len(cols) > 12 else "")
         raise InputError(
             f"missing required column(s) {missing}; found {found}. "
-            f"Rename them or map them in the config's [columns] table ({hint})", file=path)
-    if frame.empty:
-        raise InputError("file has a header but no rows; remove it or add its season's rows", file=path)
-    for column in ("player_id", "season", "team", "player"):
+            f"Rename them or map them in the config's [columns] table ({hint})", file=where)
+
+
+def _season(frame, table, where):
+    from .cells import text_column
+    from .readers import normalise_season
+
+    if "season" not in frame.columns:
+        if table.name_season is None:
+            raise InputError(table.name_problem, file=where)
+        frame["season"] = table.name_season
+        return
+    seasons = text_column(frame["season"]).map(lambda s: s if s is None or s != s else normalise_season(s))
+    frame["season"] = seasons
+    if table.name_season is not None:
+        differs = seasons.notna() & (seasons != table.name_season)
+        if differs.any():
+            i = int(differs.to_numpy().argmax())
+            raise InputError(
+                f"season {seasons.iloc[i]!r} disagrees with the season {table.name_season!r} in the file "
+                "name; fix the column or the file name (or rename the file without a season)",
+                file=where, row=table.first_row + i, column="season")
+
+
+def _numbers(frame, readings, table, where, notes):
+    """Parse every numeric column once; unknown columns that hold text are ignored."""
+    from .cells import numeric_column
+    from .columns import ColumnReading
+
+    how, out = {}, []
+    for r in readings:
+        wanted = r.role in ("feature", "unknown") or (r.role == "standard" and r.name in _NUMERIC)
+        if not wanted:
+            out.append(r)
+            continue
+        try:
+            values, parsed = numeric_column(frame[r.name], where={"file": where, "column": r.source},
+                                            first_row=table.first_row)
+        except InputError:
+            text = frame[r.name].astype("string").str.strip()
+            numeric = text.str.fullmatch(r"[-+]?[\d.,]+%?").mean() if text.notna().any() else 1.0
+            if r.role != "unknown" or numeric >= 0.5:
+                raise
+            out.append(ColumnReading(r.source, "ignored", how="values (text)", note="text, not numbers"))
+            frame.drop(columns=r.name, inplace=True)
+            continue
+        frame[r.name] = values
+        if parsed:
+            how[r.name] = parsed
+            notes.append((where, f"{r.source}: {parsed} parsed as numbers"))
+        out.append(ColumnReading(r.source, "feature", r.name, r.family, r.play_type, r.how, r.note)
+                   if r.role == "unknown" else r)
+    return out, how
+
+
+def _identity(frame, where, first_row):
+    from .cells import text_column
+
+    for column in ("player_id", "team", "player"):
         if column in frame.columns:
-            text = frame[column].astype("string").str.strip()
-            text = text.mask(text == "")
+            text = text_column(frame[column])
             if column != "player" and text.isna().any():
                 i = int(text.isna().to_numpy().argmax())
-                raise InputError("value is empty; every row needs one", file=path, row=i + 2, column=column)
+                raise InputError("value is empty; every row needs one", file=where, row=first_row + i,
+                                 column=column)
             frame[column] = text
     if "player" not in frame.columns:
         frame["player"] = frame["player_id"]
     frame["player"] = frame["player"].fillna(frame["player_id"])
-    for column in _NUMERIC:
-        if column in frame.columns:
-            frame[column] = _to_numeric(frame, column, path)
+
+
+def _check_counts(frame, where, first_row):
     for column in ("games", "minutes"):
         values = frame[column]
         bad = values.isna() | (values < 0)
@@ -151,27 +186,59 @@ def _standardise(frame, path: Path, config: Config):
             i = int(bad.to_numpy().argmax())
             shown = "empty" if values.isna().iloc[i] else f"{values.iloc[i]:g}"
             raise InputError(f"value {shown} is not allowed; {column} must be a number >= 0",
-                             file=path, row=i + 2, column=column)
-    frame["source_file"] = str(path)
-    frame["source_row"] = range(2, len(frame) + 2)
-    return frame
+                             file=where, row=first_row + i, column=column)
 
 
-def _feature_columns(frame, path: Path, config: Config):
-    candidates = [c for c in frame.columns
-                  if c not in STANDARD_COLUMNS and c not in ("source_file", "source_row")]
+def _read_table(table, config, notes):
+    """One raw table -> (frame with drift names, readings, rate units)."""
+    from .columns import understand_columns
+    from .units import table_units
+
+    where, frame = table.where, table.frame
+    if frame.empty and len(frame.columns) == 0:
+        raise InputError("file is empty; remove it or add its season's rows", file=where)
+    readings = understand_columns(list(frame.columns), config)
+    _refuse_clashes(readings, where)
+    _require(readings, frame, table)
+    if frame.empty:
+        raise InputError("file has a header but no rows; remove it or add its season's rows", file=where)
+    used = [r for r in readings if r.role in ("standard", "feature", "unknown")]
+    frame = frame[[r.source for r in used]].copy()
+    frame.columns = [r.name for r in used]
+    readings, how = _numbers(frame, readings, table, where, notes)
+    _identity(frame, where, table.first_row)
+    _season(frame, table, where)
+    _check_counts(frame, where, table.first_row)
+    _refuse_lone_efficiency(readings, where)
+    feats = [r for r in readings if r.role == "feature"]
+    table_notes, rate_units = table_units(frame, [r.name for r in feats], [r.family for r in feats], where,
+                                          first_row=table.first_row, how=how, units=dict(config.units))
+    notes.extend((where, n) for n in table_notes)
+    frame["source_file"] = where
+    frame["source_row"] = range(table.first_row, table.first_row + len(frame))
+    return frame, readings, rate_units
+
+
+def _refuse_lone_efficiency(readings, where):
+    shares = {r.play_type for r in readings if r.role == "feature" and r.family == "share"}
+    for r in readings:
+        if r.role == "feature" and r.family == "efficiency" and r.play_type not in shares:
+            raise InputError(
+                f"points per possession of {r.play_type} has no {r.play_type} frequency column, so its sample "
+                f"is unknown; add the frequency column or leave the efficiency out ([intake] exclude = "
+                f"[\"{r.source}\"])", file=where, column=r.source)
+
+
+def _feature_order(per_table, config):
+    names = list(dict.fromkeys(r.name for _, rs in per_table for r in rs if r.role == "feature"))
     if config.features is not None:
-        missing = [f for f in config.features if f not in frame.columns]
+        order = {n: i for i, n in enumerate(config.features)}
+        sources = {r.name: r.source for _, rs in per_table for r in rs if r.role == "feature"}
+        names.sort(key=lambda n: order.get(n, order.get(sources.get(n), len(order))))
+        missing = [f for f in config.features if f not in names and f not in sources.values()]
         if missing:
-            raise InputError(f"config lists feature(s) {missing} that this file lacks", file=path)
-        return list(config.features), []
-    features, ignored = [], []
-    for c in candidates:
-        if c in config.exclude:
-            continue
-        # a column that is mostly numbers is a feature with a typo; a text column is not a feature
-        (features if _numeric_share(frame[c]) >= 0.5 else ignored).append(c)
-    return features, ignored
+            raise InputError(f"config lists feature(s) {missing} that the data lacks", file=per_table[0][0])
+    return names
 
 
 def read_seasons(paths, config: Config | None = None) -> RawSeasons:
@@ -181,9 +248,9 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
     ----------
     paths : path or list of paths
         Season files (``.csv``, ``.xlsx``, ``.parquet``) and/or folders of them.
-        The season comes from a ``season`` column, else from the file name.
+        The season comes from a ``season`` column, else from the file (or sheet) name.
     config : Config, optional
-        Column mapping and feature selection.
+        Column map, name rules, sheet and units (see README, "Config file").
 
     Returns
     -------
@@ -196,33 +263,50 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
     """
     import pandas as pd
 
+    from .readers import read_tables
+    from .units import harmonise_rates
+
     config = config or Config()
     if isinstance(paths, (str, Path)):
         paths = [paths]
     files = _files_of(paths)
-    frames, feature_sets, ignored_all = [], {}, set()
+    text_columns, recognise = _plan(config)
+    required = [c for c in REQUIRED_COLUMNS if c != "season"]
+    frames, per_table, rate_units, notes = [], [], [], []
     for path in files:
-        frame = _standardise(_read_one(path), path, config)
-        features, ignored = _feature_columns(frame, path, config)
-        for f in features:
-            frame[f] = _to_numeric(frame, f, path)
-        ignored_all.update(ignored)
-        feature_sets[path] = features
-        frames.append(frame)
-    all_features = list(dict.fromkeys(f for fs in feature_sets.values() for f in fs))
+        for table in read_tables(path, text_columns=text_columns, recognise=recognise, required=required,
+                                 sheet=config.sheet):
+            frame, readings, units = _read_table(table, config, notes)
+            frames.append(frame)
+            per_table.append((table.where, readings))
+            rate_units.append((frame, table.where, units))
+    all_features = _feature_order(per_table, config)
     if not all_features:
         raise InputError("no numeric feature columns found; see README 'Input tables'", file=files[0])
-    for path, features in feature_sets.items():
-        lacking = [f for f in all_features if f not in features]
+    for (where, _), frame in zip(per_table, frames):
+        lacking = [f for f in all_features if f not in frame.columns]
         if lacking:
-            others = next(p for p, fs in feature_sets.items() if lacking[0] in fs)
+            others = next(w for (w, _), fr in zip(per_table, frames) if lacking[0] in fr.columns)
             raise InputError(
-                f"lacks feature column(s) {lacking} that {others.name} has; every season needs "
-                "the same features (add them, or list the shared ones under [intake] features)",
-                file=path)
+                f"lacks feature column(s) {lacking} that {Path(others).name} has; every season needs "
+                "the same features (add them, or list the shared ones under [intake] features)", file=where)
+    units, unit_notes = harmonise_rates(rate_units)
+    notes.extend((None, n) for n in unit_notes)
     keep = [c for c in STANDARD_COLUMNS if any(c in f.columns for f in frames)]
     table = pd.concat([f[[c for c in keep if c in f.columns] + all_features + ["source_file", "source_row"]]
                        for f in frames], ignore_index=True)
+    _refuse_repeats(table)
+    from .intake_report import column_table, emit_notes
+
+    columns = column_table(per_table, units)
+    emit_notes(notes, columns)
+    ignored = sorted(set(columns.loc[columns["role"].isin(["ignored", "sample"]), "column"]))
+    return RawSeasons(table=table, features=tuple(all_features), files=tuple(str(f) for f in files),
+                      ignored_columns=tuple(ignored), columns=columns,
+                      notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes), units=units)
+
+
+def _refuse_repeats(table):
     key = ["player_id", "season", "team"] + (["stint"] if "stint" in table.columns else [])
     dup = table.duplicated(key, keep=False)
     if dup.any():
@@ -233,5 +317,3 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
             f"{first['team']!r} (also {Path(second['source_file']).name} row {second['source_row']}); "
             "keep one row per player, season and team",
             file=first["source_file"], row=int(first["source_row"]))
-    return RawSeasons(table=table, features=tuple(all_features), files=tuple(str(f) for f in files),
-                      ignored_columns=tuple(sorted(ignored_all)))

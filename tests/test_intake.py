@@ -54,7 +54,7 @@ def test_config_maps_column_names_and_excludes(tmp_path, write_csv):
     config = Config(columns={"player_id": "PID", "minutes": "MP", "games": "G"}, exclude=("age",))
     raw = read_seasons(path, config)
     assert "age" not in raw.features and "position" not in raw.features
-    assert raw.ignored_columns == ("position",)
+    assert raw.ignored_columns == ("age", "position")  # age: a descriptor; position: text
     assert raw.table["minutes"].iloc[0] == 1500
 
 
@@ -89,9 +89,9 @@ def test_missing_required_column_names_it_and_the_fix(write_csv):
 
 def test_text_in_numeric_column_gives_file_row_column_value(write_csv):
     t = small_table().astype({"usage_pct": object})
-    t.loc[3, "usage_pct"] = "n/a"
+    t.loc[3, "usage_pct"] = "abc"
     msg = _error(write_csv(t, "x.csv"))
-    assert "x.csv" in msg and "row 5" in msg and "usage_pct" in msg and "'n/a'" in msg
+    assert "x.csv" in msg and "row 5" in msg and "usage_pct" in msg and "'abc'" in msg
 
 
 def test_blank_player_id(write_csv):
@@ -124,7 +124,7 @@ def test_infinite_value(write_csv):
 
 
 def test_empty_season_file(tmp_path):
-    small_table().to_csv(tmp_path / "2021-22.csv", index=False)
+    small_table(seasons=("2021-22",)).to_csv(tmp_path / "2021-22.csv", index=False)
     small_table().iloc[:0].to_csv(tmp_path / "2022-23.csv", index=False)
     msg = _error(tmp_path)
     assert "2022-23.csv" in msg and "no rows" in msg
@@ -183,3 +183,23 @@ def test_fuzzed_cells_either_read_or_fail_cleanly(tmp_path, row, column, value):
     else:
         assert np.isfinite(raw.table[["games", "minutes"]].to_numpy()).all()
         assert (raw.table[["games", "minutes"]].to_numpy() >= 0).all()
+
+
+def test_demo_written_as_a_real_export_reads_like_the_demo(tmp_path, demo_prepared, demo_model,
+                                                           demo_analysis):
+    from drift.api import prepare
+
+    from conftest import DEMO
+    from exports import COLUMN_MAP, write_export
+
+    write_export(DEMO, tmp_path)
+    prepared = prepare(tmp_path, Config(columns=COLUMN_MAP))
+    assert prepared.features == demo_prepared.features
+    cols = ["player_id", "season", "team", "games", "minutes", "possessions", *demo_prepared.features]
+    pd.testing.assert_frame_equal(prepared.kept[cols], demo_prepared.kept[cols], check_dtype=False)
+    placed = demo_model.place(prepared.kept)
+    assert (placed["role"].to_numpy() == demo_analysis.placements["role"].to_numpy()).all()
+    ignored = prepared.columns.drop_duplicates("column").set_index("column")
+    assert ignored.loc["TEAM_ID", "role"] == "ignored" and "id" in ignored.loc["TEAM_ID", "note"]
+    assert ignored.loc["AGE", "role"] == "ignored" and "age" in ignored.loc["AGE", "note"]
+    assert ignored.loc["ISO_PPP", "family"] == "efficiency" and ignored.loc["ISO_PPP", "play_type"] == "isolation"
