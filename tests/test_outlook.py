@@ -122,3 +122,15 @@ def test_demo_run_outlook_and_backtest(demo_analysis):
     assert allrow["log_loss"] < allrow["naive_log_loss"]
     judged = bt.calibration[bt.calibration["n"] >= 100]
     assert (judged["gap"].abs() <= 0.05).all()
+
+
+def test_report_shows_the_outlook_and_its_backtest(demo_analysis):
+    from drift.report import build_context, render_report
+
+    context = build_context(demo_analysis)
+    assert len(context.outlook) == len(demo_analysis.outlook)
+    first = context.outlook[0]
+    assert first["change"] == pytest.approx(demo_analysis.outlook["change_prob"].max())
+    html = render_report(context)
+    assert 'id="outlook"' in html and first["player"] in html
+    assert "same role as last season" in context.backtest_note and "How the outlook fared" in html

@@ -122,6 +122,19 @@ class ReportContext:
     out_of_reference : list of dict
     alignment : list of dict or None
     noise_note : str
+    outlook : list of dict
+        Next season, one per player placed in the latest season, likeliest to change role
+        first: player_id, player, team, season, role, projected, stay, change, likeliest
+        (the three likeliest roles with their chances), spread, seasons, minutes
+        (:func:`drift.report.outlook.outlook_rows`).
+    outlook_note : str
+        What the outlook is and is not, in a few sentences.
+    backtest : list of dict
+        ``backtest.csv`` rows (per season scored, then ``all``).
+    calibration : list of dict
+        ``backtest_calibration.csv`` rows.
+    backtest_note : str
+        The backtest's verdict against the naive forecast, in a sentence.
         Calibration of the noise model, in a sentence.
     alpha : float
     """
@@ -160,6 +173,11 @@ class ReportContext:
     alignment: list | None
     noise_note: str
     alpha: float
+    outlook: list
+    outlook_note: str
+    backtest: list
+    calibration: list
+    backtest_note: str
     shown: int = 25
 
 

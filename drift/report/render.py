@@ -9,10 +9,10 @@ __all__ = ["build_context", "template_environment", "render_report", "write_repo
 
 def _sections():
     """The section builders, in page order."""
-    from . import data, moves, roles
+    from . import data, moves, outlook, roles
 
     return (data.build_summary, roles.build_roles, moves.build_moves, data.build_drift,
-            roles.build_choice, data.build_features, data.build_data)
+            outlook.build_outlook, roles.build_choice, data.build_features, data.build_data)
 
 
 def build_context(analysis):
