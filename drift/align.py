@@ -72,6 +72,8 @@ def align_models(previous, new, *, threshold=None) -> Alignment:
     import pandas as pd
     from scipy.spatial.distance import cdist
 
+    from .constants import role_id, role_number
+
     shared = [f for f in previous.features_ if f in new.features_]
     if not shared:
         raise ModelFileError("the two models share no features; they cannot be aligned")
@@ -94,11 +96,11 @@ def align_models(previous, new, *, threshold=None) -> Alignment:
             ids[new.role_ids_[c]] = previous.role_ids_[r]
             matched_prev.add(r)
             matched_new.add(c)
-    used = {int(i[1:]) for i in previous.role_ids_ if i[1:].isdigit()}
+    used = {role_number(i) for i in previous.role_ids_} - {None}
     next_num = max(used, default=0) + 1
     for c, rid in enumerate(new.role_ids_):
         if c not in matched_new:
-            carried = f"R{next_num}"
+            carried = role_id(next_num - 1)
             next_num += 1
             ids[rid] = carried
             nearest = int(np.argmin(cost[:, c]))
@@ -117,8 +119,10 @@ def relabel(new, previous, alignment: Alignment, *, keep_names=None):
     """Give ``new`` the previous model's ids, names and descriptions where roles were kept.
 
     ``keep_names`` (role id -> name from the user's config) wins over carried names.
-    Modifies and returns ``new``.
+    Returns a relabelled copy; ``new`` itself is left as it was fitted.
     """
+    import copy
+
     prev_name = dict(zip(previous.role_ids_, previous.role_names_))
     prev_desc = dict(zip(previous.role_ids_, previous.role_descriptions_))
     kept = set(alignment.table.loc[alignment.table["status"] == "kept", "new_id"])
@@ -128,7 +132,8 @@ def relabel(new, previous, alignment: Alignment, *, keep_names=None):
         names.append(prev_name[carried] if old in kept else name)
         descs.append(prev_desc[carried] if old in kept else desc)
     given = keep_names or {}
-    new.role_ids_ = ids
-    new.role_names_ = [given.get(i, n) for i, n in zip(ids, names)]
-    new.role_descriptions_ = descs
-    return new
+    out = copy.copy(new)  # learned arrays are shared, never written to; the lists are new
+    out.role_ids_ = ids
+    out.role_names_ = [given.get(i, n) for i, n in zip(ids, names)]
+    out.role_descriptions_ = descs
+    return out

@@ -7,6 +7,7 @@ outputs; ``place_files`` places seasons with a saved model.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -167,14 +168,9 @@ def fit_model(prepared: Prepared, config: Config | None = None):
 
     config = config or Config()
     pool = reference_pool(prepared, config.reference)
-    model = RoleModel(components=config.components, variance_threshold=config.variance_threshold,
-                      roles=config.roles, max_roles=config.max_roles,
-                      noise_policy=config.noise_policy, seed=config.seed,
-                      role_names=dict(config.role_names))
+    model = RoleModel.from_settings(config.model)
     try:
-        return model.fit(pool, features=prepared.features, intake={
-            "min_games": config.min_games, "min_minutes_per_game": config.min_minutes_per_game,
-            "min_stint_games": config.min_stint_games, "total_marker": config.total_marker})
+        return model.fit(pool, features=prepared.features, intake=config.intake)
     except ValueError as exc:
         raise InputError(str(exc)) from None
 
@@ -320,7 +316,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
     alignment = None
     if prev is not None:
         alignment = align_models(prev, model)
-        relabel(model, prev, alignment, keep_names=dict(config.role_names))
+        model = relabel(model, prev, alignment, keep_names=dict(config.role_names))
     analysis = analyse(prepared, model, config, alignment=alignment)
     with atomic_folder(out, inputs=guarded) as tmp:
         write_outputs(analysis, tmp)
@@ -356,12 +352,12 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     check_output_file(out, inputs=guarded)
     check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
     model = RoleModel.load(model_path)
-    intake = model.intake_
-    config = (config or Config()).replace(
-        min_games=min_games if min_games is not None else intake["min_games"],
-        min_minutes_per_game=(min_minutes_per_game if min_minutes_per_game is not None
-                              else intake["min_minutes_per_game"]),
-        total_marker=intake.get("total_marker"))
+    config = config or Config()
+    # the model's own intake rules, as saved; the caller's columns, and filters only when given
+    intake = dataclasses.replace(model.intake_, columns=config.intake.columns,
+                                 features=config.intake.features, exclude=config.intake.exclude)
+    config = config.replace(intake=intake, min_games=min_games,
+                            min_minutes_per_game=min_minutes_per_game)
     prepared = prepare(files, config)
     model.check_features(prepared.features)
     placements = model.place(prepared.kept)

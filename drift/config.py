@@ -1,6 +1,13 @@
-"""Run settings: defaults, the TOML config file, and command-line overrides.
+"""Run settings: three typed parts, one validator per field, and the TOML file.
 
-A config file has up to five tables; every key is optional::
+``Config`` is built from parts: :class:`IntakePolicy` (columns, features, filters),
+:class:`ModelSettings` (the reference model's settings, saved in the model file
+as they are) and :class:`MoveSettings`; plus the reference seasons. The CLI, the
+TOML loader and the model file all build the parts through the same validators,
+so a value refused in one place is refused everywhere: wrong types, NaN and
+infinities, and values out of range are errors, never clamped.
+
+A config file has up to six tables; every key is optional::
 
     [columns]            # drift's name = the column name in your export
     player_id = "PLAYER_ID"
@@ -32,7 +39,7 @@ A config file has up to five tables; every key is optional::
     [model]
     reference = ["2021-22", "2022-23"]
     components = "parallel"      # "parallel", "elbow", "variance", a count, or a fraction
-    roles = "auto"               # or a number
+    roles = "auto"               # or a number >= 2
     noise_policy = "shrink"      # "shrink", "weight", "shrink+weight", "none"
     seed = 0
 
@@ -51,26 +58,38 @@ import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from . import settings_rules as rules
 from .errors import ConfigError
 
-__all__ = ["Config", "load_config", "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
+__all__ = ["Config", "IntakePolicy", "ModelSettings", "MoveSettings", "load_config",
+           "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
 
-#: drift's own column names: identity and sample-size columns, never features.
-STANDARD_COLUMNS = (
-    "player_id", "player", "season", "team", "games", "minutes", "possessions", "stint",
-)
+STANDARD_COLUMNS = rules.STANDARD_COLUMNS
 REQUIRED_COLUMNS = ("player_id", "season", "team", "games", "minutes")
-NOISE_POLICIES = ("shrink", "weight", "shrink+weight", "none")
-COMPONENT_RULES = ("parallel", "elbow", "variance")
+NOISE_POLICIES = rules.NOISE_POLICIES
+COMPONENT_RULES = rules.COMPONENT_RULES
+
+
+class _Part:
+    """Validation and plain-dict conversion shared by the parts."""
+
+    _rules: dict = {}
+
+    def __post_init__(self):
+        for f in dataclasses.fields(self):
+            object.__setattr__(self, f.name, self._rules[f.name](f.name, getattr(self, f.name)))
+
+    def to_dict(self) -> dict:
+        return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}
+
+    @classmethod
+    def from_dict(cls, body: dict):
+        return cls(**body)
 
 
 @dataclass(frozen=True)
-class Config:
-    """Every setting of a run. Build with :func:`load_config` or directly.
-
-    ``components`` is a rule name, an ``int`` count or a ``float`` fraction of
-    variance in (0, 1); ``roles`` is ``"auto"`` or an ``int``.
-    """
+class IntakePolicy(_Part):
+    """How season files are read and which rows qualify."""
 
     columns: dict = field(default_factory=dict)
     total_marker: str | None = "TOT"
@@ -81,72 +100,146 @@ class Config:
     units: dict = field(default_factory=dict)
     rename: dict = field(default_factory=dict)
     play_types: dict = field(default_factory=dict)
-    min_games: int = 20
+    min_games: float = 20
     min_minutes_per_game: float = 10.0
-    min_stint_games: int = 10
-    reference: tuple | None = None
+    min_stint_games: float = 10
+
+    _rules = {
+        "columns": rules.columns, "total_marker": rules.optional_text,
+        "features": rules.optional_names, "exclude": rules.names, "sheet": rules.optional_text,
+        "read": rules.text_map, "units": rules.text_map, "rename": rules.text_map,
+        "play_types": rules.text_map,
+        "min_games": rules.non_negative, "min_minutes_per_game": rules.non_negative,
+        "min_stint_games": rules.non_negative,
+    }
+
+    def __post_init__(self):
+        super().__post_init__()
+        _check_intake_rules(self)
+
+    #: what the model file records about the intake (the filters, the marker and the rules)
+    _MODEL_FILE_KEYS = ("min_games", "min_minutes_per_game", "total_marker")
+
+    def to_model_file(self) -> dict:
+        """The intake as the model file records it: the filters, the marker and the fixed rules."""
+        from .constants import INTAKE_RULES_TEXT
+
+        return {"min_games": self.min_games, "min_minutes_per_game": self.min_minutes_per_game,
+                "total_marker": self.total_marker, **INTAKE_RULES_TEXT,
+                "min_stint_games": self.min_stint_games}
+
+    @classmethod
+    def from_model_file(cls, body: dict, *, where="model"):
+        """Rebuild from :meth:`to_model_file` output (the rule texts are descriptive only)."""
+        from .constants import INTAKE_RULES_TEXT
+        from .errors import DriftError, ModelFileError
+
+        known = set(cls._MODEL_FILE_KEYS) | set(INTAKE_RULES_TEXT) | {"min_stint_games"}
+        unknown = sorted(set(body) - known)
+        if unknown:
+            raise ModelFileError(f"{where}: unknown setting(s) {unknown}; known: {sorted(known)}")
+        try:
+            return cls(**{k: v for k, v in body.items() if k not in INTAKE_RULES_TEXT})
+        except DriftError as exc:
+            raise ModelFileError(f"{where}: {exc}") from None
+
+
+@dataclass(frozen=True)
+class ModelSettings(_Part):
+    """The reference model's settings (see :class:`drift.model.RoleModel`)."""
+
     components: object = "parallel"
     variance_threshold: float = 0.80
     roles: object = "auto"
     max_roles: int = 10
     noise_policy: str = "shrink"
     seed: int = 0
-    alpha: float = 0.01
-    compare: tuple | None = None
+    n_init: int = rules.KMEANS_RESTARTS
+    n_bootstrap: int = 20
     role_names: dict = field(default_factory=dict)
 
-    def __post_init__(self):
-        if self.min_games < 0:
-            raise ConfigError(f"min_games={self.min_games} must be >= 0")
-        if self.min_minutes_per_game < 0:
-            raise ConfigError(
-                f"min_minutes_per_game={self.min_minutes_per_game} must be >= 0")
-        if self.noise_policy not in NOISE_POLICIES:
-            raise ConfigError(
-                f"noise_policy={self.noise_policy!r} is not one of {', '.join(NOISE_POLICIES)}")
-        c = self.components
-        if isinstance(c, bool) or not (
-            c in COMPONENT_RULES
-            or (isinstance(c, int) and c >= 1)
-            or (isinstance(c, float) and 0 < c < 1)
-        ):
-            raise ConfigError(
-                f"components={c!r} must be one of {', '.join(COMPONENT_RULES)}, "
-                "a count >= 1 or a fraction between 0 and 1")
-        r = self.roles
-        if not (r == "auto" or (isinstance(r, int) and not isinstance(r, bool) and r >= 1)):
-            raise ConfigError(f"roles={r!r} must be 'auto' or a whole number >= 1")
-        if not 0 < self.alpha < 1:
-            raise ConfigError(f"alpha={self.alpha} must be between 0 and 1")
-        if self.compare is not None and len(self.compare) != 2:
-            raise ConfigError(f"compare needs exactly two seasons, got {list(self.compare)}")
-        _check_intake_rules(self)
-        unknown = set(self.columns) - set(STANDARD_COLUMNS)
+    _rules = {
+        "components": rules.components, "variance_threshold": rules.fraction_closed,
+        "roles": rules.roles, "max_roles": rules.count_from(2), "noise_policy": rules.noise_policy,
+        "seed": rules.count_from(0), "n_init": rules.count_from(1),
+        "n_bootstrap": rules.count_from(1), "role_names": rules.text_map,
+    }
+
+
+@dataclass(frozen=True)
+class MoveSettings(_Part):
+    """How moves are judged: the level for "beyond noise" and an extra season pair."""
+
+    alpha: float = 0.01
+    compare: tuple | None = None
+
+    _rules = {"alpha": rules.fraction_open, "compare": rules.compare}
+
+
+_PARTS = {"intake": IntakePolicy, "model": ModelSettings, "moves": MoveSettings}
+_OWNER = {f.name: part for part, kind in _PARTS.items() for f in dataclasses.fields(kind)}
+
+
+@dataclass(frozen=True, init=False)
+class Config:
+    """Every setting of a run: ``intake``, ``model`` and ``moves`` parts and the ``reference`` seasons.
+
+    Build it from parts, ``Config(intake=IntakePolicy(...))``, or flat,
+    ``Config(min_games=15, roles=6, compare=("2021-22", "2023-24"))``: each flat
+    name goes to the part that owns it. Every part's field is also readable
+    flat (``config.min_games``).
+    """
+
+    intake: IntakePolicy
+    model: ModelSettings
+    moves: MoveSettings
+    reference: tuple | None
+
+    def __init__(self, *, intake=None, model=None, moves=None, reference=None, **flat):
+        unknown = sorted(set(flat) - set(_OWNER))
         if unknown:
-            raise ConfigError(
-                f"[columns] has unknown drift names {sorted(unknown)}; "
-                f"allowed: {', '.join(STANDARD_COLUMNS)}")
+            raise ConfigError(f"unknown setting(s) {unknown}; allowed: {', '.join(sorted(_OWNER))}")
+        given = {"intake": intake, "model": model, "moves": moves}
+        for name, kind in _PARTS.items():
+            part = given[name] if given[name] is not None else kind()
+            if not isinstance(part, kind):
+                raise ConfigError(f"{name} must be a {kind.__name__}, got {type(part).__name__}")
+            changes = {k: v for k, v in flat.items() if _OWNER[k] == name}
+            object.__setattr__(self, name, dataclasses.replace(part, **changes) if changes else part)
+        object.__setattr__(self, "reference", rules.optional_names("reference", reference))
+
+    def __getattr__(self, name):
+        part = _OWNER.get(name)
+        if part is None:
+            raise AttributeError(f"'Config' has no setting {name!r}")
+        return getattr(object.__getattribute__(self, part), name)
 
     def replace(self, **changes) -> "Config":
-        """A copy with the given settings changed; ``None`` values are ignored."""
-        return dataclasses.replace(self, **{k: v for k, v in changes.items() if v is not None})
+        """A copy with the given settings changed; ``None`` means "not given" and changes nothing."""
+        changes = {k: v for k, v in changes.items() if v is not None}
+        parts = {name: getattr(self, name) for name in _PARTS}
+        reference = changes.pop("reference", self.reference)
+        for key in ("intake", "model", "moves"):
+            if key in changes:
+                parts[key] = changes.pop(key)
+        return Config(**parts, reference=reference, **changes)
 
 
-def _check_intake_rules(config):
+def _check_intake_rules(policy):
     """Validate the column-reading rules of [intake] (see drift.columns, drift.units)."""
     from .columns import parse_read_rule, understand_columns
     from .units import UNIT_WORDS
 
-    for pattern, spec in config.read.items():
+    for pattern, spec in policy.read.items():
         try:
             parse_read_rule(spec)
         except ValueError as exc:
             raise ConfigError(f"[intake.read] {pattern!r}: {exc}") from None
-    for name, unit in config.units.items():
+    for name, unit in policy.units.items():
         allowed = ("total", "per_game") if name in ("minutes", "possessions") else ("percent", "fraction")
         if unit not in allowed or unit not in UNIT_WORDS:
             raise ConfigError(f"[intake.units] {name} = {unit!r}: give one of {', '.join(allowed)}")
-    for old, new in config.rename.items():
+    for old, new in policy.rename.items():
         if not str(new).strip():
             raise ConfigError(f"[intake.rename] {old} = {new!r}: give a name")
         before = understand_columns([old], Config())[0]
@@ -156,7 +249,7 @@ def _check_intake_rules(config):
             raise ConfigError(f"[intake.rename] {old} = {new!r}: a play-type feature keeps its form "
                               f"(share_<type> or ppp_<type>) so its sample stays linked; rename the play type "
                               "under [intake] play_types instead")
-    if config.sheet is not None and not str(config.sheet).strip():
+    if policy.sheet is not None and not str(policy.sheet).strip():
         raise ConfigError("[intake] sheet must name a sheet")
 
 
@@ -186,6 +279,8 @@ def load_config(path=None) -> Config:
         raw = tomllib.loads(path.read_text(encoding="utf-8"))
     except FileNotFoundError:
         raise ConfigError(f"{path}: config file not found") from None
+    except IsADirectoryError:
+        raise ConfigError(f"{path}: is a folder; give the config file") from None
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
         raise ConfigError(f"{path}: not valid TOML ({exc}); see README 'Config file'") from None
     values = {}
@@ -196,26 +291,25 @@ def load_config(path=None) -> Config:
         if not isinstance(body, dict):
             raise ConfigError(f"{path}: '{section}' must be a table like [{section}]")
         if section == "columns":
-            values["columns"] = {str(k): str(v) for k, v in body.items()}
+            values["columns"] = body
             continue
         allowed = _SECTIONS[section]
         for key, value in body.items():
             if key not in allowed:
                 raise ConfigError(
                     f"{path}: unknown key '{key}' in [{section}]; allowed: {', '.join(sorted(allowed))}")
-            if section == "roles":
-                values["role_names"] = {str(k): str(v) for k, v in value.items()}
-            elif key in ("read", "units", "rename", "play_types"):
-                if not isinstance(value, dict):
-                    raise ConfigError(f"{path}: [{section}] {key} must be a table like [intake.{key}]")
-                values[key] = {str(k): str(v) for k, v in value.items()}
-            elif key in ("features", "exclude", "reference", "compare"):
-                values[key] = tuple(str(v) for v in value)
-            else:
-                values[key] = value
+            if key in ("read", "units", "rename", "play_types") and not isinstance(value, dict):
+                raise ConfigError(f"{path}: [{section}] {key} must be a table like [intake.{key}]")
+            values["role_names" if section == "roles" else key] = value
     try:
         return Config(**values)
     except ConfigError as exc:
         raise ConfigError(f"{path}: {exc}") from None
-    except TypeError as exc:
-        raise ConfigError(f"{path}: {exc}") from None
+
+
+def _plain(value):
+    if isinstance(value, dict):
+        return dict(value)
+    if isinstance(value, tuple):
+        return list(value)
+    return value

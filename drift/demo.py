@@ -169,6 +169,52 @@ def _minutes_for(tier, rng):
     return int(games), float(games * mpg)
 
 
+def _offseason(rng, rosters, last_team, new_player, *, roster, trade_rate, change_rate):
+    """Departures, then off-season trades, then rookies fill the gaps; summer role changes."""
+    teams = list(rosters)
+    for t in teams:
+        rosters[t] = [p for p in rosters[t] if rng.random() > 0.09]
+    movers = [(t, p) for t in teams for p in rosters[t] if rng.random() < trade_rate]
+    for t, p in movers:
+        rosters[t].remove(p)
+    for t, p in movers:
+        dest = [u for u in teams if u != t and len(rosters[u]) < roster]
+        (rosters[str(rng.choice(dest))] if dest else rosters[t]).append(p)
+    for t in teams:
+        while len(rosters[t]) < roster:
+            rosters[t].append(new_player())
+        for p in rosters[t]:
+            if p.pid in last_team:
+                p.age_one_season(rng)
+                p.changed = False
+                moved = last_team[p.pid] != t
+                if rng.random() < change_rate * (3 if moved else 1):
+                    p.change_role(rng)
+                    p.changed = True
+
+
+def _midseason_trade(rng, t, p, tier, rosters, last_team, rows, truth, season, s_index):
+    """One mid-season trade: two stints, the second possibly in a new role."""
+    teams = list(rosters)
+    games, minutes = _minutes_for(tier, rng)
+    split = rng.uniform(0.3, 0.7)
+    dest = str(rng.choice([u for u in teams if u != t]))
+    changed = bool(getattr(p, "changed", False))
+    first_role = p.role
+    for stint, (team, frac) in enumerate(((t, split), (dest, 1 - split)), start=1):
+        if stint == 2 and rng.random() < 0.3:
+            p.change_role(rng)
+        g = max(int(round(games * frac)), 1)
+        rows.append({"player_id": p.pid, "player": p.name, "team": team, "season": season,
+                     **_observe(p, g, minutes * frac, rng, s_index)})
+        truth.append({"player_id": p.pid, "season": season, "team": team, "stint": stint,
+                      "true_role": p.role, "changed": changed if stint == 1 else p.role != first_role,
+                      "between": p.between, "changed_midseason": p.role != first_role})
+    rosters[t].remove(p)
+    rosters[dest].append(p)
+    last_team[p.pid] = dest
+
+
 def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 20,
                     change_rate: float = 0.06, trade_rate: float = 0.12,
                     midseason_rate: float = 0.04, between_rate: float = 0.15,
@@ -223,26 +269,8 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
     last_team = {}  # player -> team he ended the previous season with
     for s_index, season in enumerate(seasons):
         if s_index > 0:
-            # departures, then off-season trades, then rookies fill the gaps
-            for t in teams:
-                rosters[t] = [p for p in rosters[t] if rng.random() > 0.09]
-            movers = [(t, p) for t in teams for p in rosters[t] if rng.random() < trade_rate]
-            for t, p in movers:
-                rosters[t].remove(p)
-            for t, p in movers:
-                dest = [u for u in teams if u != t and len(rosters[u]) < roster]
-                (rosters[str(rng.choice(dest))] if dest else rosters[t]).append(p)
-            for t in teams:
-                while len(rosters[t]) < roster:
-                    rosters[t].append(new_player())
-                for p in rosters[t]:
-                    if p.pid in last_team:
-                        p.age_one_season(rng)
-                        p.changed = False
-                        moved = last_team[p.pid] != t
-                        if rng.random() < change_rate * (3 if moved else 1):
-                            p.change_role(rng)
-                            p.changed = True
+            _offseason(rng, rosters, last_team, new_player, roster=roster, trade_rate=trade_rate,
+                       change_rate=change_rate)
         last_team = {}
         midseason = []
         for t in teams:
@@ -264,23 +292,7 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
                               "changed_midseason": False})
                 last_team[p.pid] = t
         for t, p, tier in midseason:
-            games, minutes = _minutes_for(tier, rng)
-            split = rng.uniform(0.3, 0.7)
-            dest = str(rng.choice([u for u in teams if u != t]))
-            changed = bool(getattr(p, "changed", False))
-            first_role = p.role
-            for stint, (team, frac) in enumerate(((t, split), (dest, 1 - split)), start=1):
-                if stint == 2 and rng.random() < 0.3:
-                    p.change_role(rng)
-                g = max(int(round(games * frac)), 1)
-                rows.append({"player_id": p.pid, "player": p.name, "team": team, "season": season,
-                             **_observe(p, g, minutes * frac, rng, s_index)})
-                truth.append({"player_id": p.pid, "season": season, "team": team, "stint": stint,
-                              "true_role": p.role, "changed": changed if stint == 1 else p.role != first_role,
-                              "between": p.between, "changed_midseason": p.role != first_role})
-            rosters[t].remove(p)
-            rosters[dest].append(p)
-            last_team[p.pid] = dest
+            _midseason_trade(rng, t, p, tier, rosters, last_team, rows, truth, season, s_index)
         for t in teams:  # trades leave uneven rosters; trim the longest back to size
             while len(rosters[t]) > roster:
                 rosters[t].pop(int(rng.integers(len(rosters[t]))))

@@ -14,7 +14,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["FeatureSpec", "feature_spec", "exposure_matrix", "apply_filters", "fill_unused_shares", "FAMILIES"]
+__all__ = ["FeatureSpec", "feature_spec", "exposure_matrix", "sample_base", "safe_scale", "apply_filters",
+           "fill_unused_shares", "FAMILIES"]
 
 FAMILIES = ("share", "efficiency", "rate", "shooting")
 _SHOOTING = {"ts_pct", "efg_pct", "three_pa_rate", "ft_rate", "three_pct", "rim_rate"}
@@ -55,6 +56,32 @@ def feature_spec(names) -> FeatureSpec:
     return FeatureSpec(names=names, families=families, share_of=share_of)
 
 
+def sample_base(table, *, floor=None):
+    """Sample size of each row, shape (n,): possessions when every row has them, else minutes.
+
+    ``floor`` (e.g. 1.0) keeps a zero sample from dividing by zero.
+    """
+    import numpy as np
+
+    if "possessions" in table.columns and table["possessions"].notna().all():
+        base = table["possessions"].to_numpy(float)
+    else:
+        base = table["minutes"].to_numpy(float)
+    return base if floor is None else np.maximum(base, floor)
+
+
+def safe_scale(scale, mean=0.0):
+    """Standard deviations safe to divide by: a flat one (zero up to rounding) becomes 1.
+
+    A feature with no spread carries nothing; unit scale keeps it harmless.
+    """
+    import numpy as np
+
+    scale = np.asarray(scale, float)
+    flat = scale <= 1e-9 * np.maximum(1.0, np.abs(mean))
+    return np.where(flat, 1.0, scale)
+
+
 def exposure_matrix(table, spec: FeatureSpec):
     """Sample size behind every value, shape (n_rows, n_features).
 
@@ -64,9 +91,7 @@ def exposure_matrix(table, spec: FeatureSpec):
     """
     import numpy as np
 
-    base = table["minutes"].to_numpy(float)
-    if "possessions" in table.columns and table["possessions"].notna().all():
-        base = table["possessions"].to_numpy(float)
+    base = sample_base(table)
     out = np.empty((len(table), len(spec.names)))
     for j, name in enumerate(spec.names):
         e = base.copy()

@@ -86,12 +86,45 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     q = scores.shape[1]
     delta = scores[second] - scores[first]
     distance = np.sqrt((delta ** 2).sum(axis=1))
-    nf, nt = noise_var.take(first), noise_var.take(second)
-    d2 = model.move_statistic(delta, nf, nt) if len(first) else np.zeros(0)
-    cov = model.move_cov(nf, nt) if len(first) else np.zeros((0, q, q))
+    null = model.move_null(noise_var.take(first), noise_var.take(second))  # once per pair table
+    d2 = null.statistic(delta)
     p = chi2.sf(d2, q)
     z = norm.isf(np.clip(p, 1e-300, 1.0))
     pl = placements.reset_index(drop=True)
+    out = _pair_identity(table, first, second, kind)
+    out["minutes_from"] = table["minutes"].to_numpy()[first]
+    out["minutes_to"] = table["minutes"].to_numpy()[second]
+    role_from = pl["role"].to_numpy()[first]
+    role_to = pl["role"].to_numpy()[second]
+    out["role_from"], out["role_to"] = role_from, role_to
+    out["prob_from"] = pl["role_prob"].to_numpy()[first]
+    out["prob_to"] = pl["role_prob"].to_numpy()[second]
+    prob = pl[[f"prob_{r}" for r in model.role_ids_]].to_numpy()
+    role_col = {r: j for j, r in enumerate(model.role_ids_)}
+    from_col = np.array([role_col[r] for r in role_from], int)
+    out["prob_to_of_role_from"] = prob[second, from_col] if len(first) else []
+    out["distance"] = distance
+    out["noise_distance"] = null.noise_distance()
+    out["z"] = z
+    out["p_value"] = p
+    out["beyond_noise"] = p < alpha
+    group = out["season_from"].astype(str) + "|" + out["season_to"].astype(str)
+    out["percentile"] = out.groupby(group)["distance"].rank(pct=True) * 100
+    differs = role_from != role_to
+    out["status"] = np.select(
+        [differs & out["beyond_noise"], differs, out["beyond_noise"]],
+        ["changed", "unsettled", "shifted"], default="steady")
+    out["role_changed"] = out["status"] == "changed"
+    _add_drivers(out, model, processed, delta, distance, first, second, n_drivers)
+    for j in range(q):
+        out[f"move_pc{j + 1}"] = delta[:, j]
+    return out
+
+
+def _pair_identity(table, first, second, kind):
+    """Who moved, between which seasons and teams, and whether a trade lies between."""
+    import pandas as pd
+
     out = pd.DataFrame({
         "kind": kind,
         "player_id": table["player_id"].to_numpy()[first],
@@ -112,38 +145,22 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
         out["team_from"] = table["team"].to_numpy()[first]
         out["team_to"] = table["team"].to_numpy()[second]
         out["traded"] = (last[first] != first_team[second]) | (n_stints[first] > 1) | (n_stints[second] > 1)
-    out["minutes_from"] = table["minutes"].to_numpy()[first]
-    out["minutes_to"] = table["minutes"].to_numpy()[second]
-    role_from = pl["role"].to_numpy()[first]
-    role_to = pl["role"].to_numpy()[second]
-    out["role_from"], out["role_to"] = role_from, role_to
-    out["prob_from"] = pl["role_prob"].to_numpy()[first]
-    out["prob_to"] = pl["role_prob"].to_numpy()[second]
-    prob = pl[[f"prob_{r}" for r in model.role_ids_]].to_numpy()
-    role_col = {r: j for j, r in enumerate(model.role_ids_)}
-    from_col = np.array([role_col[r] for r in role_from], int)
-    out["prob_to_of_role_from"] = prob[second, from_col] if len(first) else []
-    out["distance"] = distance
-    out["noise_distance"] = np.sqrt(np.trace(cov, axis1=1, axis2=2)) if len(first) else np.zeros(0)
-    out["z"] = z
-    out["p_value"] = p
-    out["beyond_noise"] = p < alpha
-    group = out["season_from"].astype(str) + "|" + out["season_to"].astype(str)
-    out["percentile"] = out.groupby(group)["distance"].rank(pct=True) * 100
-    differs = role_from != role_to
-    out["status"] = np.select(
-        [differs & out["beyond_noise"], differs, out["beyond_noise"]],
-        ["changed", "unsettled", "shifted"], default="steady")
-    out["role_changed"] = out["status"] == "changed"
+    return out
+
+
+def _add_drivers(out, model, processed, delta, distance, first, second, n_drivers):
+    """Add the ``n_drivers`` features that carry most of each move, in units and pool SDs."""
+    import numpy as np
+
+    from .features import safe_scale
+
     # drivers: each feature's share of the distance, i.e. its contribution to the move
     # projected on the move's direction (the contributions add up to the distance)
     change = processed[second] - processed[first]
-    load = model.components_ * (model.weights_ / model.scaler_scale_)  # (q, p)
     with np.errstate(invalid="ignore", divide="ignore"):
         direction = np.where(distance[:, None] > 0, delta / distance[:, None], 0.0)
-    contribution = (direction @ load) * change  # (m, p)
-    raw_sd = model.noise_["sd"].to_numpy(float)
-    change_sd = change / np.where(raw_sd > 0, raw_sd, 1.0)
+    contribution = (direction @ model.loadings()) * change  # (m, p)
+    change_sd = change / safe_scale(model.noise_["sd"].to_numpy(float))
     rank = np.argsort(-contribution, axis=1, kind="stable")[:, :n_drivers]
     feats = np.asarray(model.features_)
     rows = np.arange(len(first))
@@ -153,9 +170,6 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
         out[f"driver_{n + 1}_change"] = change[rows, col]
         out[f"driver_{n + 1}_change_sd"] = change_sd[rows, col]
         out[f"driver_{n + 1}_share"] = contribution[rows, col] / np.where(distance > 0, distance, 1.0)
-    for j in range(q):
-        out[f"move_pc{j + 1}"] = delta[:, j]
-    return out
 
 
 def comparables(model, placements, pool_placements, *, n=5):

@@ -36,10 +36,7 @@ def place(model, table):
 
     scores = model.transform(table)
     d = model.distances(scores)
-    logits = -d ** 2 / (2 * model.within_var_)
-    logits -= logits.max(axis=1, keepdims=True)
-    prob = np.exp(logits)
-    prob /= prob.sum(axis=1, keepdims=True)
+    prob = model.memberships(d)
     order = np.argsort(d, axis=1, kind="stable")
     rows = np.arange(len(d))
     ids = np.asarray(model.role_ids_)

@@ -34,6 +34,8 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     from sklearn.cluster import KMeans
 
     from .align import match_centroids
+    from .constants import KMEANS_RESTARTS
+    from .features import safe_scale
 
     seasons = seasons.reset_index(drop=True)
     processed, _ = model.processed(seasons)
@@ -45,7 +47,7 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
         sel = (seasons["season"] == season).to_numpy()
         if sel.sum() < k * min_rows_per_role:
             continue
-        km = KMeans(n_clusters=k, n_init=10, random_state=seed).fit(scores[sel])
+        km = KMeans(n_clusters=k, n_init=KMEANS_RESTARTS, random_state=seed).fit(scores[sel])
         cent = np.vstack([processed[sel][km.labels_ == g].mean(axis=0) for g in range(k)])
         cost = cdist(ref, (cent - model.scaler_mean_) / model.scaler_scale_) / np.sqrt(ref.shape[1])
         rows, cols = match_centroids(cost)
@@ -60,8 +62,7 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     out = pd.DataFrame(records, columns=["season", "role", "role_name", "n_players", "match_cost",
                                          "feature", "value", "reference_value"])
     out["change"] = out["value"] - out["reference_value"]
-    raw_sd = model.noise_["sd"].astype(float)
-    sd = raw_sd.where(raw_sd > 0, 1.0)
+    sd = pd.Series(safe_scale(model.noise_["sd"].to_numpy(float)), index=model.noise_.index)
     out["change_sd"] = out["change"] / out["feature"].map(sd)
     first = out.groupby(["role", "feature"])["value"].transform("first")
     out["change_from_first"] = out["value"] - first

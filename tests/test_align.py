@@ -77,8 +77,10 @@ def test_relabel_carries_ids_names_descriptions():
     prev = _fake_model(base, ["R1", "R2"])
     prev.role_names_ = ["Lead", "Wing"]
     new = _fake_model(base[::-1] + 0.01)
-    relabel(new, prev, align_models(prev, new), keep_names={"R1": "Primary"})
-    assert new.role_ids_ == ["R2", "R1"] and new.role_names_ == ["Wing", "Primary"]
+    fitted_ids = list(new.role_ids_)
+    out = relabel(new, prev, align_models(prev, new), keep_names={"R1": "Primary"})
+    assert out.role_ids_ == ["R2", "R1"] and out.role_names_ == ["Wing", "Primary"]
+    assert new.role_ids_ == fitted_ids  # the fitted model is left as it was
 
 
 def test_refit_on_shifted_pool_keeps_roles(demo_prepared):
@@ -89,7 +91,7 @@ def test_refit_on_shifted_pool_keeps_roles(demo_prepared):
     first = fit_model(demo_prepared, Config(reference=("2019-20", "2020-21", "2021-22", "2022-23")))
     second = fit_model(demo_prepared, Config(reference=("2021-22", "2022-23", "2023-24", "2024-25")))
     al = align_models(first, second)
-    relabel(second, first, al)
+    second = relabel(second, first, al)
     shared = demo_prepared.kept[demo_prepared.kept["season"].isin(["2021-22", "2022-23"])]
     same = (first.predict(shared) == second.predict(shared)).mean()
     print(f"refit on a shifted pool: {same:.1%} of shared player-seasons keep their role id")

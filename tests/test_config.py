@@ -63,3 +63,49 @@ def test_bad_files_say_what_is_wrong(tmp_path, text, words):
 def test_missing_file(tmp_path):
     with pytest.raises(ConfigError, match="not found"):
         load_config(tmp_path / "none.toml")
+
+
+def test_config_is_built_from_parts_and_reads_flat():
+    from drift.config import Config, IntakePolicy, ModelSettings, MoveSettings
+
+    c = Config(intake=IntakePolicy(min_games=15), model=ModelSettings(roles=5), roles=6, alpha=0.05)
+    assert isinstance(c.moves, MoveSettings) and c.moves.alpha == 0.05
+    assert (c.min_games, c.roles, c.model.roles) == (15, 6, 6)
+    assert c == Config(min_games=15, roles=6, alpha=0.05)
+    with pytest.raises(ConfigError, match="unknown setting"):
+        Config(speed=3)
+
+
+@pytest.mark.parametrize("key, value, words", [
+    ("alpha", float("nan"), "alpha=nan"),
+    ("min_minutes_per_game", float("inf"), "min_minutes_per_game=inf"),
+    ("variance_threshold", 1.5, "variance_threshold=1.5"),
+    ("roles", 1, "roles=1"),
+    ("roles", True, "roles=True"),
+    ("seed", -1, "seed=-1"),
+    ("max_roles", 2.5, "max_roles=2.5"),
+    ("compare", ("2021-22", "2021-22"), "two different seasons"),
+    ("compare", ("2021-22",), "exactly two seasons"),
+    ("total_marker", 7, "total_marker=7"),
+])
+def test_out_of_range_values_are_refused_not_clamped(key, value, words):
+    from drift.config import Config
+
+    with pytest.raises(ConfigError) as info:
+        Config(**{key: value})
+    assert words in str(info.value)
+
+
+def test_a_single_name_is_one_name_not_ignored(tmp_path):
+    p = tmp_path / "c.toml"
+    p.write_text('[intake]\nexclude = "age"\n[model]\nreference = "2021-22"\n')
+    c = load_config(p)
+    assert c.exclude == ("age",) and c.reference == ("2021-22",)
+
+
+def test_replace_ignores_not_given_values_only():
+    from drift.config import Config
+
+    c = Config(total_marker=None)
+    assert c.total_marker is None  # no marker: every row is a team row, never silently "TOT"
+    assert c.replace(min_games=None, roles=3) == Config(total_marker=None, roles=3)

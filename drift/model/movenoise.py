@@ -1,0 +1,147 @@
+"""The null distribution of a move: its covariance under "no real change" and its calibration.
+
+For a pair of placements the processed feature change has, under the null,
+variance B1^2 v1 + B2^2 v2 + (B2 - B1)^2 tau2 + B1 B2 drift per feature (the
+sampling noise of both, the change unequal shrinkage alone makes for a player
+away from the mean, and the typical true yearly change of a returning player),
+plus the multinomial covariance of play-type shares. Carried into component
+space by the loadings, it is scaled by a line a + b x fitted on the pool's
+returning players (x = 1/m1 + 1/m2 over its pool median), so that the squared
+Mahalanobis length of a move is chi-square with q degrees of freedom.
+
+:class:`MoveNull` is built once per pair table and serves both the statistic
+and the noise distance.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+__all__ = ["MoveCalibration", "MoveNull", "fit_calibration"]
+
+#: moves beyond this null quantile are left out of the calibration (clear movers)
+_CLEAR_MOVER = 0.999
+_BINS = 5
+_MIN_PAIRS = 30
+_MIN_PER_BIN = 10
+
+
+@dataclass(frozen=True)
+class MoveCalibration:
+    """Scale a + b x of the null covariance; x is clipped to [low, high] (no extrapolation).
+
+    The default is "as modelled": scale 1 for every pair.
+    """
+
+    a: float = 1.0
+    b: float = 0.0
+    sample: float = 1.0
+    low: float = 0.0
+    high: float = 1e12
+
+    def scale(self, base_from, base_to):
+        """The factor, shape (m,), for pairs with samples ``base_from`` and ``base_to``."""
+        import numpy as np
+
+        x = (1 / base_from + 1 / base_to) / self.sample
+        x = np.clip(x, self.low, self.high)
+        return self.a + self.b * x
+
+
+@dataclass(frozen=True)
+class MoveNull:
+    """Null covariance ``cov`` (m, q, q) of m moves in component space."""
+
+    cov: object
+
+    @classmethod
+    def between(cls, loadings, noise, noise_from, noise_to, calibration=MoveCalibration()):
+        """Build the null of moves from ``noise_from`` to ``noise_to`` (:class:`NoiseState`, m rows).
+
+        Parameters
+        ----------
+        loadings : array of shape (q, p)
+            Component scores per unit of each processed feature.
+        noise : DataFrame indexed by feature with ``tau2`` and ``drift_var``.
+        calibration : MoveCalibration
+        """
+        import numpy as np
+
+        b1, b2 = noise_from.factor, noise_to.factor
+        tau2 = noise["tau2"].to_numpy(float)
+        drift = noise["drift_var"].to_numpy(float)
+        feature_var = (b1 ** 2 * noise_from.var + b2 ** 2 * noise_to.var
+                       + (b2 - b1) ** 2 * tau2 + b1 * b2 * drift)
+        cov = _carry(loadings, feature_var)
+        for state in (noise_from, noise_to):
+            u = state.factor * state.u
+            lu = u @ loadings.T  # (m, q)
+            cov = cov + _carry(loadings, u ** 2) - lu[:, :, None] * lu[:, None, :]
+        return cls(calibration.scale(noise_from.base, noise_to.base)[:, None, None] * cov)
+
+    def statistic(self, delta):
+        """Squared Mahalanobis length of the moves ``delta`` (m, q): chi-square, q d.o.f., under the null."""
+        import numpy as np
+
+        if not len(delta):
+            return np.zeros(0)
+        cov = self.cov + np.eye(self.cov.shape[1])[None] * 1e-9
+        solved = np.linalg.solve(cov, delta[..., None])[..., 0]
+        return (delta * solved).sum(axis=1)
+
+    def noise_distance(self):
+        """Root of the total null variance of each move, shape (m,): a typical no-change distance."""
+        import numpy as np
+
+        return np.sqrt(np.trace(self.cov, axis1=1, axis2=2))
+
+
+def _carry(loadings, feature_var):
+    """Covariance in component space, (m, q, q), of independent feature noise (m, p)."""
+    import numpy as np
+
+    return np.einsum("qp,np,rp->nqr", loadings, feature_var, loadings)
+
+
+def fit_calibration(d2, raw_x, q: int) -> MoveCalibration:
+    """Fit a + b x so the pool's returning players' statistics ``d2`` follow the null.
+
+    Parameters
+    ----------
+    d2 : array of shape (m,)
+        Uncalibrated statistics of the pool's consecutive-season pairs.
+    raw_x : array of shape (m,)
+        1/m1 + 1/m2 of each pair.
+    q : int
+        Components (degrees of freedom).
+
+    In bins of sample size, the scale that puts the median on the null's median
+    (the null truncated at its 99.9th percentile, since clear movers are left
+    out); then a weighted line through the bins, refitted five times.
+    """
+    import numpy as np
+    from scipy.stats import chi2
+
+    if len(d2) < _MIN_PAIRS:
+        return MoveCalibration()
+    median = float(np.median(raw_x))
+    x = raw_x / median
+    null_median = chi2.ppf(0.5 * _CLEAR_MOVER, q)
+    keep = np.ones(len(d2), bool)
+    a, b = 1.0, 0.0
+    for _ in range(5):
+        edges = np.quantile(x[keep], np.linspace(0, 1, _BINS + 1))
+        which = np.clip(np.searchsorted(edges, x, side="right") - 1, 0, _BINS - 1)
+        xs, cs, ws = [], [], []
+        for bin_ in range(_BINS):
+            sel = keep & (which == bin_)
+            if sel.sum() >= _MIN_PER_BIN:
+                xs.append(x[sel].mean())
+                cs.append(np.median(d2[sel]) / null_median)
+                ws.append(sel.sum())
+        b, a = (np.polyfit(xs, cs, 1, w=np.sqrt(ws)) if len(xs) >= 2 and np.ptp(xs) > 0
+                else (0.0, float(np.median(d2[keep]) / null_median)))
+        if min(a + b * x.min(), a + b * x.max()) <= 0:
+            a, b = float(np.median(d2[keep]) / null_median), 0.0
+        keep = d2 / (a + b * x) <= chi2.ppf(_CLEAR_MOVER, q)
+    return MoveCalibration(float(a), float(b), median, float(x.min()), float(x.max()))
