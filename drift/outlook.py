@@ -6,15 +6,13 @@ scores over the seasons so far (each season weighted by its minutes times
 ``decay`` per season back, so the latest season counts most), together with his
 latest role and the decayed minutes behind the summary.
 
-* **Role probabilities** come from a multinomial logistic regression of next
-  season's role on: the latest role (one column per role: the data's
-  year-to-year stay and change rates by role), the squared distances of the
-  history summary and of the latest season to every role centre in units of the
-  pool's within-role variance (the player's own evidence, including a player
-  sitting between two roles), and those history distances times the log sample
-  (how far to trust the evidence at his sample size). The L2 penalty regresses
-  everything toward the base rates; the fit uses every pair of consecutive
-  qualifying seasons in the data.
+* **Role probabilities** come from a multinomial logistic regression of next season's role on:
+  the latest role (one column per role: the data's year-to-year stay and change rates by role),
+  the squared distances of the history summary and of the latest season to every role centre in
+  units of the pool's within-role variance (the player's own evidence, including a player sitting
+  between two roles), and those history distances times the log sample (how far to trust the
+  evidence at his sample size). The L2 penalty regresses everything toward the base rates; the
+  fit uses every pair of consecutive qualifying seasons in the data.
 * **Expected position**: per component, a least-squares line of next season's
   score on the history score, its slope depending on the log sample
   (regression to the mean is stronger for short histories); the root-mean-square
