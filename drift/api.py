@@ -324,6 +324,17 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
 
 
 @one_thread
+def _model_config(model, config):
+    """``config`` with the model's own intake rules (filters, total marker) as saved in it.
+
+    The caller's columns, features and exclusions are kept: they describe the new files.
+    """
+    config = config or Config()
+    intake = dataclasses.replace(model.intake_, columns=config.intake.columns,
+                                 features=config.intake.features, exclude=config.intake.exclude)
+    return config.replace(intake=intake)
+
+
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
                 min_minutes_per_game=None, inputs=()):
     """Place season files with a saved model and write one CSV.
@@ -352,12 +363,8 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     check_output_file(out, inputs=guarded)
     check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
     model = RoleModel.load(model_path)
-    config = config or Config()
-    # the model's own intake rules, as saved; the caller's columns, and filters only when given
-    intake = dataclasses.replace(model.intake_, columns=config.intake.columns,
-                                 features=config.intake.features, exclude=config.intake.exclude)
-    config = config.replace(intake=intake, min_games=min_games,
-                            min_minutes_per_game=min_minutes_per_game)
+    config = _model_config(model, config).replace(min_games=min_games,
+                                                  min_minutes_per_game=min_minutes_per_game)
     prepared = prepare(files, config)
     model.check_features(prepared.features)
     placements = model.place(prepared.kept)
@@ -417,14 +424,10 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
-    intake = model.intake_
-    base = (config or Config()).replace(min_games=intake["min_games"],
-                                        min_minutes_per_game=intake["min_minutes_per_game"],
-                                        total_marker=intake.get("total_marker"))
+    base = _model_config(model, config)
     part_config = base.replace(
         min_games=min_games if min_games is not None else INSEASON_MIN_GAMES,
-        min_minutes_per_game=(min_minutes_per_game if min_minutes_per_game is not None
-                              else intake["min_minutes_per_game"]))
+        min_minutes_per_game=min_minutes_per_game)
     part = prepare(partial, part_config)
     full = prepare(against, base)
     for prepared in (part, full):

@@ -74,7 +74,7 @@ def _statistic(model, first_rows, second_rows, target=None):
     proc_b, nb = model.processed(second_rows)
     start = model.scores_from_processed(proc_a)
     delta = (target - start) if target is not None else model.scores_from_processed(proc_b) - start
-    return model.move_statistic(delta, na, nb)
+    return model.move_null(na, nb).statistic(delta)
 
 
 def _scaled_statistic(model, table, first, second, factor):
