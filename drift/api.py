@@ -327,11 +327,13 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
 def _model_config(model, config):
     """``config`` with the model's own intake rules (filters, total marker) as saved in it.
 
-    The caller's columns, features and exclusions are kept: they describe the new files.
+    The caller's reading rules (columns, features, sheet, ...) are kept: they describe the new files.
     """
     config = config or Config()
-    intake = dataclasses.replace(model.intake_, columns=config.intake.columns,
-                                 features=config.intake.features, exclude=config.intake.exclude)
+    saved = model.intake_
+    intake = dataclasses.replace(config.intake, min_games=saved.min_games,
+                                 min_minutes_per_game=saved.min_minutes_per_game,
+                                 min_stint_games=saved.min_stint_games, total_marker=saved.total_marker)
     return config.replace(intake=intake)
 
 
