@@ -13,6 +13,7 @@ from pathlib import Path
 
 from .config import Config
 from .errors import InputError
+from .threads import thread_limited
 
 __all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
            "write_outputs"]
@@ -62,24 +63,6 @@ class Analysis:
     outlook: object = None
     #: drift.outlook.Backtest (per-season scores and calibration table), or None
     backtest: object = None
-
-
-def one_thread(func):
-    """Run ``func`` with the math libraries (BLAS, OpenMP) on one thread.
-
-    Sums split across threads add up in another order, which changes the last digits of
-    K-means and matrix products; on one thread a run writes the same bytes on any machine,
-    whatever its number of cores or ``OMP_NUM_THREADS``.
-    """
-    import functools
-
-    @functools.wraps(func)
-    def wrapper(*args, **kwargs):
-        from threadpoolctl import threadpool_limits
-
-        with threadpool_limits(limits=1):
-            return func(*args, **kwargs)
-    return wrapper
 
 
 def _missing_table(seasons, spec, filled):
@@ -161,7 +144,7 @@ def reference_pool(prepared: Prepared, reference=None):
     return pool
 
 
-@one_thread
+@thread_limited(fitting=True)
 def fit_model(prepared: Prepared, config: Config | None = None):
     """Fit the reference model on the pool chosen by ``config.reference``."""
     from .model import RoleModel
@@ -175,7 +158,7 @@ def fit_model(prepared: Prepared, config: Config | None = None):
         raise InputError(str(exc)) from None
 
 
-@one_thread
+@thread_limited(fitting=True)
 def analyse(prepared: Prepared, model, config: Config | None = None, *, alignment=None) -> Analysis:
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
@@ -275,7 +258,7 @@ def check_seasons(prepared: Prepared, config: Config) -> None:
                 raise InputError(f"--compare season {s!r} is not in the data; available: {available}")
 
 
-@one_thread
+@thread_limited(fitting=True)
 def run(data, out, config: Config | None = None, *, previous=None, inputs=()) -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
@@ -323,7 +306,6 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
     return analysis
 
 
-@one_thread
 def _model_config(model, config):
     """``config`` with the model's own intake rules (filters, total marker) as saved in it.
 
@@ -337,6 +319,7 @@ def _model_config(model, config):
     return config.replace(intake=intake)
 
 
+@thread_limited(fitting=False)
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
                 min_minutes_per_game=None, inputs=()):
     """Place season files with a saved model and write one CSV.

@@ -63,9 +63,9 @@ class FittingSteps:
         """Principal components with the sign rule; returns the pool's scores, (n, q)."""
         import numpy as np
 
-        from ..selection import choose_components
+        from ..workload import select_components
 
-        q, self.component_diagnostics_ = choose_components(
+        q, self.component_diagnostics_ = select_components(
             z, self.components, variance_threshold=self.variance_threshold, seed=self.seed)
         self.pca_mean_ = z.mean(axis=0)
         _, s, vt = np.linalg.svd(z - self.pca_mean_, full_matrices=False)
@@ -82,9 +82,9 @@ class FittingSteps:
         import numpy as np
 
         from ..constants import role_id
-        from ..selection import choose_roles
+        from ..workload import select_roles
 
-        choice = choose_roles(scores, self.roles, max_roles=self.max_roles, seed=self.seed,
+        choice = select_roles(scores, self.roles, max_roles=self.max_roles, seed=self.seed,
                               n_init=self.n_init, n_boot=self.n_bootstrap)
         k, km, self.role_diagnostics_ = choice.k, choice.kmeans, choice.diagnostics
         order = np.argsort(-km.cluster_centers_[:, 0], kind="stable")
