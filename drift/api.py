@@ -13,6 +13,7 @@ from pathlib import Path
 
 from .config import Config
 from .errors import InputError
+from .progress import stages
 from .threads import thread_limited
 
 __all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
@@ -81,7 +82,7 @@ def _missing_table(seasons, spec, filled):
     return pd.DataFrame(rows)
 
 
-def prepare(data, config: Config | None = None) -> Prepared:
+def prepare(data, config: Config | None = None, *, progress=None) -> Prepared:
     """Read season files, combine stints, fill unused shares and apply the filters.
 
     Parameters
@@ -98,10 +99,13 @@ def prepare(data, config: Config | None = None) -> Prepared:
     from .intake import read_seasons
 
     config = config or Config()
-    raw = read_seasons(data, config)
+    st = stages(progress)
+    with st.stage("read"):
+        raw = read_seasons(data, config)
     spec = feature_spec(raw.features)
-    seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
-    seasons, filled = fill_unused_shares(seasons, spec)
+    with st.stage("combine stints", len(raw.table)):
+        seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
+        seasons, filled = fill_unused_shares(seasons, spec)
     missing = _missing_table(seasons, spec, filled)
     filled_with_mean = missing[(missing["family"].isin(["rate", "shooting"])) & (missing["missing"] > 0)]
     if len(filled_with_mean):
@@ -145,7 +149,7 @@ def reference_pool(prepared: Prepared, reference=None):
 
 
 @thread_limited(fitting=True)
-def fit_model(prepared: Prepared, config: Config | None = None):
+def fit_model(prepared: Prepared, config: Config | None = None, *, progress=None):
     """Fit the reference model on the pool chosen by ``config.reference``."""
     from .model import RoleModel
 
@@ -153,13 +157,15 @@ def fit_model(prepared: Prepared, config: Config | None = None):
     pool = reference_pool(prepared, config.reference)
     model = RoleModel.from_settings(config.model)
     try:
-        return model.fit(pool, features=prepared.features, intake=config.intake)
+        with stages(progress).stage("fit reference model", len(pool)):
+            return model.fit(pool, features=prepared.features, intake=config.intake)
     except ValueError as exc:
         raise InputError(str(exc)) from None
 
 
 @thread_limited(fitting=True)
-def analyse(prepared: Prepared, model, config: Config | None = None, *, alignment=None) -> Analysis:
+def analyse(prepared: Prepared, model, config: Config | None = None, *, alignment=None,
+            progress=None) -> Analysis:
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
 
@@ -169,38 +175,45 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     from .roledrift import role_drift
 
     config = config or Config()
+    st = stages(progress)
     kept = prepared.kept
-    placements = model.place(kept)
-    for extra in ("team_first", "team_last", "n_stints"):
-        if extra in kept.columns:
-            placements[extra] = kept[extra].to_numpy()
+    with st.stage("place", len(kept)):
+        placements = model.place(kept)
+        for extra in ("team_first", "team_last", "n_stints"):
+            if extra in kept.columns:
+                placements[extra] = kept[extra].to_numpy()
     i1, i2 = consecutive_season_pairs(kept)
-    kept_processed = model.processed(kept)  # shared by every season-pair measurement below
-    moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
-                        processed=kept_processed)]
-    if config.compare:
-        a, b = config.compare
-        seasons = set(kept["season"])
-        for s in (a, b):
-            if s not in seasons:
-                raise InputError(f"--compare season {s!r} is not in the data; available: {sorted(seasons)}")
-        j1, j2 = requested_pairs(kept, a, b)
-        moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested",
-                                processed=kept_processed))
-    moves = pd.concat(moves, ignore_index=True)
+    with st.stage("moves", len(i1)):
+        kept_processed = model.processed(kept)  # shared by every season-pair measurement below
+        moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
+                            processed=kept_processed)]
+        if config.compare:
+            a, b = config.compare
+            seasons = set(kept["season"])
+            for s in (a, b):
+                if s not in seasons:
+                    raise InputError(f"--compare season {s!r} is not in the data; available: {sorted(seasons)}")
+            j1, j2 = requested_pairs(kept, a, b)
+            moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested",
+                                    processed=kept_processed))
+        moves = pd.concat(moves, ignore_index=True)
     stints = prepared.stints
-    if len(stints):
-        stint_place = model.place(stints)
-        stint_place["stint"] = stints["stint"].to_numpy()
-        s1, s2 = stint_pairs(stints)
-        stint_moves = pair_moves(model, stints.reset_index(drop=True), stint_place, s1, s2,
-                                 alpha=config.alpha, kind="stint")
-    else:
-        stint_moves = pd.DataFrame()
-    pool_mask = kept["season"].isin(model.reference_seasons_).to_numpy()
-    comps = comparables(model, placements, placements[pool_mask])
-    drift = role_drift(model, kept, seed=config.seed)
-    outlook, backtest = season_outlook(placements, model)
+    with st.stage("stints", len(stints)):
+        if len(stints):
+            stint_place = model.place(stints)
+            stint_place["stint"] = stints["stint"].to_numpy()
+            s1, s2 = stint_pairs(stints)
+            stint_moves = pair_moves(model, stints.reset_index(drop=True), stint_place, s1, s2,
+                                     alpha=config.alpha, kind="stint")
+        else:
+            stint_moves = pd.DataFrame()
+    with st.stage("comparables", len(placements)):
+        pool_mask = kept["season"].isin(model.reference_seasons_).to_numpy()
+        comps = comparables(model, placements, placements[pool_mask])
+    with st.stage("role drift", len(kept)):
+        drift = role_drift(model, kept, seed=config.seed)
+    with st.stage("outlook", len(placements)):
+        outlook, backtest = season_outlook(placements, model)
     return Analysis(model=model, placements=placements, moves=moves, stints=stint_moves,
                     role_drift=drift, comparables=comps, alignment=alignment,
                     prepared=prepared, config=config, outlook=outlook, backtest=backtest)
@@ -212,7 +225,7 @@ OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "st
                 "backtest.csv", "backtest_calibration.csv", "report.html")
 
 
-def write_outputs(analysis: Analysis, folder):
+def write_outputs(analysis: Analysis, folder, *, progress=None):
     """Write every output file of a run into ``folder`` (see README, "Outputs").
 
     CSV text cells are neutralised for spreadsheets (:mod:`drift.safecsv`).
@@ -221,21 +234,22 @@ def write_outputs(analysis: Analysis, folder):
     from .safecsv import write_csv
 
     folder = Path(folder)
+    st = stages(progress)
     analysis.model.save(folder / "model.json")
-    write_csv(analysis.placements, folder / "placements.csv")
-    write_csv(analysis.moves, folder / "moves.csv")
-    write_csv(analysis.prepared.excluded, folder / "excluded.csv")
-    write_csv(analysis.stints, folder / "stints.csv")
-    write_csv(analysis.role_drift, folder / "role_drift.csv")
-    write_csv(analysis.comparables, folder / "comparables.csv")
-    write_csv(analysis.model.noise_.reset_index(), folder / "features.csv")
+    tables = [("placements.csv", analysis.placements), ("moves.csv", analysis.moves),
+              ("excluded.csv", analysis.prepared.excluded), ("stints.csv", analysis.stints),
+              ("role_drift.csv", analysis.role_drift), ("comparables.csv", analysis.comparables),
+              ("features.csv", analysis.model.noise_.reset_index())]
     if analysis.alignment is not None:
-        write_csv(analysis.alignment.table, folder / "alignment.csv")
+        tables.append(("alignment.csv", analysis.alignment.table))
     if analysis.outlook is not None:
-        write_csv(analysis.outlook, folder / "outlook.csv")
-        write_csv(analysis.backtest.seasons, folder / "backtest.csv")
-        write_csv(analysis.backtest.calibration, folder / "backtest_calibration.csv")
-    write_report(analysis, folder / "report.html")
+        tables += [("outlook.csv", analysis.outlook), ("backtest.csv", analysis.backtest.seasons),
+                   ("backtest_calibration.csv", analysis.backtest.calibration)]
+    with st.stage("write tables", sum(len(t) for _, t in tables)):
+        for name, table in tables:
+            write_csv(table, folder / name)
+    with st.stage("report", len(analysis.placements)):
+        write_report(analysis, folder / "report.html")
 
 
 def _as_list(data):
@@ -259,7 +273,8 @@ def check_seasons(prepared: Prepared, config: Config) -> None:
 
 
 @thread_limited(fitting=True)
-def run(data, out, config: Config | None = None, *, previous=None, inputs=()) -> Analysis:
+def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
+        progress=None) -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
     Parameters
@@ -273,6 +288,8 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
         A previous ``model.json`` whose role ids, names and descriptions are carried over.
     inputs : paths, optional
         Other files the output must not touch (the CLI passes the config file).
+    progress : callable or drift.progress.Stages, optional
+        Receives a :class:`drift.progress.StageEvent` as each stage starts and ends.
 
     Everything that can be checked is checked before fitting: the output folder (writable,
     not an input, drift's own if it exists), the seasons named in ``config`` and the
@@ -287,22 +304,23 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=()) ->
     from .outputs import atomic_folder, check_output_folder
 
     config = config or Config()
+    st = stages(progress)
     guarded = [*_as_list(data), previous, *inputs]
     check_output_folder(out, inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
-    prepared = prepare(data, config)
+    prepared = prepare(data, config, progress=st)
     check_seasons(prepared, config)
     if prev is not None and not set(prev.features_) & set(prepared.features):
         raise InputError(f"--previous model {previous} shares no feature with the data; it cannot "
                          "carry role ids, give a model fitted on the same kind of export")
-    model = fit_model(prepared, config)
+    model = fit_model(prepared, config, progress=st)
     alignment = None
     if prev is not None:
         alignment = align_models(prev, model)
         model = relabel(model, prev, alignment, keep_names=dict(config.role_names))
-    analysis = analyse(prepared, model, config, alignment=alignment)
+    analysis = analyse(prepared, model, config, alignment=alignment, progress=st)
     with atomic_folder(out, inputs=guarded) as tmp:
-        write_outputs(analysis, tmp)
+        write_outputs(analysis, tmp, progress=st)
     return analysis
 
 
@@ -321,13 +339,15 @@ def _model_config(model, config):
 
 @thread_limited(fitting=False)
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
-                min_minutes_per_game=None, inputs=()):
+                min_minutes_per_game=None, inputs=(), progress=None):
     """Place season files with a saved model and write one CSV.
 
     The model's features must all be present, and no others. The filters are
     the model's own (saved at fit time) unless ``min_games`` or
     ``min_minutes_per_game`` are given (a partial season wants fewer games);
     ``config`` supplies the column mapping.
+
+    ``progress`` receives stage events as in :func:`run`.
 
     Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``. Neither
     may be an input (model, data, ``inputs``) nor lie in an input folder, and an existing
@@ -342,6 +362,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     from .outputs import atomic_file, check_output_file
     from .safecsv import write_csv
 
+    st = stages(progress)
     out = Path(out)
     excluded_path = out.with_name(f"{out.stem}_excluded.csv")
     guarded = [model_path, *_as_list(files), *inputs]
@@ -350,10 +371,11 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     model = RoleModel.load(model_path)
     config = _model_config(model, config).replace(min_games=min_games,
                                                   min_minutes_per_game=min_minutes_per_game)
-    prepared = prepare(files, config)
+    prepared = prepare(files, config, progress=st)
     model.check_features(prepared.features)
-    placements = model.place(prepared.kept)
-    with atomic_file(out, inputs=guarded) as tmp:
+    with st.stage("place", len(prepared.kept)):
+        placements = model.place(prepared.kept)
+    with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
         write_csv(placements, tmp)
     if len(prepared.excluded):
         with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),

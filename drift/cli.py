@@ -86,6 +86,22 @@ def _add_intake_options(p):
                    help="fewest minutes per game (run: default 10; place: the model's)")
 
 
+def _add_progress_options(p):
+    shown = p.add_mutually_exclusive_group()
+    shown.add_argument("--quiet", action="store_true", help="no progress lines on standard error")
+    shown.add_argument("--progress", action="store_true",
+                       help="progress lines even when standard error is not a terminal")
+
+
+def _progress(args):
+    """Stage reporter for long runs: on a terminal unless --quiet, elsewhere only with --progress."""
+    if args.quiet or not (args.progress or sys.stderr.isatty()):
+        return None
+    from .progress import TerminalProgress
+
+    return TerminalProgress(sys.stderr)
+
+
 def build_parser() -> argparse.ArgumentParser:
     from . import __version__
 
@@ -112,6 +128,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
     run.add_argument("--alpha", type=_finite, help="level for 'beyond noise' (default 0.01)")
     run.add_argument("--seed", type=int, help="random seed (default 0)")
+    _add_progress_options(run)
 
     place = sub.add_parser("place", help="place season files with a saved model",
                            epilog=_PLACE_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
@@ -125,6 +142,7 @@ def build_parser() -> argparse.ArgumentParser:
     place.add_argument("--alpha", type=float, help="with --against: level for 'beyond noise' (default 0.01)")
     place.add_argument("--season-games", type=int, default=82, metavar="N",
                        help="with --against: games in a full season (default 82)")
+    _add_progress_options(place)
 
     demo = sub.add_parser("demo", help="write the fictional demo league",
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
@@ -155,7 +173,7 @@ def _run(args):
     from .api import run
 
     analysis = run(args.data, args.out, _config(args), previous=args.previous,
-                   inputs=[args.config] if args.config else ())
+                   inputs=[args.config] if args.config else (), progress=_progress(args))
     moves = analysis.moves
     changed = int((moves["status"] == "changed").sum()) if len(moves) else 0
     return (f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} "
@@ -182,7 +200,7 @@ def _place(args):
 
     placements = place_files(args.model, args.files, args.out, _config(args),
                              min_games=args.min_games, min_minutes_per_game=args.min_minutes,
-                             inputs=[args.config] if args.config else ())
+                             inputs=[args.config] if args.config else (), progress=_progress(args))
     excluded = placements.attrs.get("excluded")
     note = ""
     if excluded is not None and len(excluded):
