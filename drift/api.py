@@ -169,8 +169,8 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
 
-    from .moves import (comparables, consecutive_season_pairs, pair_moves, requested_pairs,
-                        stint_pairs)
+    from .comparables import run_comparables
+    from .moves import consecutive_season_pairs, pair_moves, requested_pairs, stint_pairs
     from .outlook import season_outlook
     from .roledrift import role_drift
 
@@ -188,12 +188,8 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
         moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
                             processed=kept_processed)]
         if config.compare:
-            a, b = config.compare
-            seasons = set(kept["season"])
-            for s in (a, b):
-                if s not in seasons:
-                    raise InputError(f"--compare season {s!r} is not in the data; available: {sorted(seasons)}")
-            j1, j2 = requested_pairs(kept, a, b)
+            check_seasons(prepared, config)
+            j1, j2 = requested_pairs(kept, *config.compare)
             moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested",
                                     processed=kept_processed))
         moves = pd.concat(moves, ignore_index=True)
@@ -208,8 +204,7 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
         else:
             stint_moves = pd.DataFrame()
     with st.stage("comparables", len(placements)):
-        pool_mask = kept["season"].isin(model.reference_seasons_).to_numpy()
-        comps = comparables(model, placements, placements[pool_mask])
+        comps = run_comparables(model, placements, moves)
     with st.stage("role drift", len(kept)):
         drift = role_drift(model, kept, seed=config.seed)
     with st.stage("outlook", len(placements)):

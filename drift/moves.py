@@ -18,7 +18,7 @@ For a pair of placements (two seasons, or the stints either side of a trade):
 from __future__ import annotations
 
 __all__ = ["pair_moves", "consecutive_season_pairs", "requested_pairs", "stint_pairs",
-           "comparables", "MOVE_STATUSES"]
+           "MOVE_STATUSES"]
 
 MOVE_STATUSES = ("changed", "unsettled", "shifted", "steady")
 
@@ -170,39 +170,3 @@ def _add_drivers(out, model, processed, delta, distance, first, second, n_driver
         out[f"driver_{n + 1}_change"] = change[rows, col]
         out[f"driver_{n + 1}_change_sd"] = change_sd[rows, col]
         out[f"driver_{n + 1}_share"] = contribution[rows, col] / np.where(distance > 0, distance, 1.0)
-
-
-def comparables(model, placements, pool_placements, *, n=5):
-    """The ``n`` nearest pool player-seasons of every placement (other players only).
-
-    Returns
-    -------
-    DataFrame: player_id, player, season, rank, comp_player_id, comp_player,
-    comp_season, comp_team, comp_role, distance.
-    """
-    import numpy as np
-    import pandas as pd
-    from sklearn.neighbors import NearestNeighbors
-
-    q = model.components_.shape[0]
-    pcs = [f"pc{j + 1}" for j in range(q)]
-    pool = pool_placements.reset_index(drop=True)
-    extra = int(pool.groupby("player_id").size().max()) if len(pool) else 0
-    k = min(n + extra, len(pool))
-    nn = NearestNeighbors(n_neighbors=k).fit(pool[pcs].to_numpy())
-    dist, idx = nn.kneighbors(placements[pcs].to_numpy())
-    pool_ids = pool["player_id"].to_numpy()
-    own = placements["player_id"].to_numpy()
-    other = pool_ids[idx] != own[:, None]
-    # first n neighbours that are other players: rank among the kept columns
-    rank = np.cumsum(other, axis=1)
-    take = other & (rank <= n)
-    rows, cols = np.nonzero(take)
-    j = idx[rows, cols]
-    return pd.DataFrame({
-        "player_id": own[rows], "player": placements["player"].to_numpy()[rows],
-        "season": placements["season"].to_numpy()[rows], "rank": rank[rows, cols],
-        "comp_player_id": pool_ids[j], "comp_player": pool["player"].to_numpy()[j],
-        "comp_season": pool["season"].to_numpy()[j], "comp_team": pool["team"].to_numpy()[j],
-        "comp_role": pool["role"].to_numpy()[j], "distance": dist[rows, cols],
-    })
