@@ -16,7 +16,7 @@ from .errors import InputError
 from .progress import stages
 from .threads import thread_limited
 
-__all__ = ["Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
+__all__ = ["check", "Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
            "write_outputs"]
 
 
@@ -30,7 +30,8 @@ class Prepared:
     ``columns``: how each export column was understood, one row per file and column
     (``file, column, role, drift_name, family, play_type, unit, how, note``; see
     :mod:`drift.intake_report`); ``notes``: every conversion and intake warning, one line
-    each; ``units``: feature -> unit as read.
+    each; ``units``: feature -> unit as read; ``sources``: one row per file or sheet read
+    (``file, seasons, rows``).
     """
 
     seasons: object
@@ -44,6 +45,7 @@ class Prepared:
     columns: object = None
     notes: tuple = ()
     units: dict = field(default_factory=dict)
+    sources: object = None
 
 
 @dataclass(frozen=True)
@@ -131,7 +133,7 @@ def prepare(data, config: Config | None = None, *, progress=None) -> Prepared:
     return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
                     features=raw.features, missing=missing, files=raw.files,
                     ignored_columns=raw.ignored_columns, columns=raw.columns, notes=raw.notes,
-                    units=dict(raw.units or {}))
+                    units=dict(raw.units or {}), sources=raw.sources)
 
 
 def reference_pool(prepared: Prepared, reference=None):
@@ -245,6 +247,21 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
             write_csv(table, folder / name)
     with st.stage("report", len(analysis.placements)):
         write_report(analysis, folder / "report.html")
+
+
+def check(data, config: Config | None = None):
+    """Dry run: read and filter ``data`` as :func:`run` would, fit nothing.
+
+    Returns
+    -------
+    drift.datacheck.DataCheck
+        How every column was read, units, seasons and files, kept and excluded
+        player-seasons by reason, every warning, and ``problems`` (empty when a
+        run would work). Print it with :func:`drift.datacheck.format_check`.
+    """
+    from .datacheck import check_data
+
+    return check_data(data, config)
 
 
 def _as_list(data):

@@ -15,6 +15,9 @@ _PLACE_EXAMPLE = """example:
   drift place drift-report/model.json current/2025-26.csv --out early.csv --min-games 10
   drift place drift-report/model.json current/2025-26.csv --against seasons/ --out early-check
 """
+_CHECK_EXAMPLE = """example:
+  drift check seasons/ --config drift.toml
+"""
 _DEMO_EXAMPLE = """example:
   drift demo --out my_demo --seed 7
 """
@@ -144,13 +147,18 @@ def build_parser() -> argparse.ArgumentParser:
                        help="with --against: games in a full season (default 82)")
     _add_progress_options(place)
 
+    check = sub.add_parser("check", help="dry run: say how every column was read, fit nothing",
+                           epilog=_CHECK_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
+    check.add_argument("data", nargs="+", help="season files (.csv, .xlsx, .parquet) or folders of them")
+    _add_intake_options(check)
+
     demo = sub.add_parser("demo", help="write the fictional demo league",
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
     demo.add_argument("--seed", type=int, default=2024, help="seed of the league (default 2024)")
     demo.add_argument("--partial-games", type=int, metavar="N",
                       help="also write the first N games of the next season to DIR/partial/")
-    for p in (run, place, demo):  # --debug also after the command name
+    for p in (run, place, check, demo):  # --debug also after the command name
         p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=argparse.SUPPRESS)
     return parser
 
@@ -160,8 +168,9 @@ def _config(args):
 
     config = load_config(args.config)
     changes = {}
-    if args.command == "run":
+    if args.command in ("run", "check"):
         changes.update(min_games=args.min_games, min_minutes_per_game=args.min_minutes)
+    if args.command == "run":
         changes.update(reference=tuple(args.reference) if args.reference else None,
                        roles=args.roles, components=args.components, noise_policy=args.noise_policy,
                        compare=tuple(args.compare) if args.compare else None, alpha=args.alpha,
@@ -190,6 +199,18 @@ def _check(args):
     shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
     return (f"drift: checked {len(checks)} players against their last season ({shown or 'none beyond noise'}); "
             f"page: {args.out}/inseason.html")
+
+
+def _check_data(args):
+    from .api import check
+    from .datacheck import format_check
+    from .errors import InputError
+
+    result = check(args.data, _config(args))
+    print(format_check(result))
+    if not result.ok:
+        raise InputError("a run would not work: " + "; ".join(result.problems))
+    return "drift: check passed; `drift run` with these files and this config would work"
 
 
 def _place(args):
@@ -231,7 +252,7 @@ def main(argv=None) -> int:
     from .messages import run_guarded
 
     args = build_parser().parse_args(argv)
-    return run_guarded({"run": _run, "place": _place, "demo": _demo}[args.command], args,
+    return run_guarded({"run": _run, "place": _place, "check": _check_data, "demo": _demo}[args.command], args,
                        debug=args.debug)
 
 

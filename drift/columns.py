@@ -200,7 +200,7 @@ def _by_name(column, norm, plays):
     if found:
         measure, play, spelling = found
         form = f"<type>_{spelling}" if norm.endswith(spelling) else f"{spelling}_<type>"
-        return _feature(column, measure, play, f"name pattern {form!r}, play type {play}")
+        return _feature(column, measure, play, f"name pattern {form!r}")
     describes = [DESCRIPTOR_WORDS[t] for t in tokens if t in DESCRIPTOR_WORDS]
     if describes or norm.endswith("id"):
         what = describes[0] if describes else "an id"

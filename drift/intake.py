@@ -38,6 +38,7 @@ class RawSeasons:
     ``ignored_columns``: export columns not used (any reason). ``columns``: one row
     per file and column with :data:`COLUMN_TABLE_FIELDS` (how it was understood).
     ``notes``: conversions and warnings, one line each. ``units``: feature -> unit.
+    ``sources``: one row per file (or sheet) read: ``file, seasons, rows``.
     """
 
     table: object  # pandas.DataFrame
@@ -47,6 +48,7 @@ class RawSeasons:
     columns: object = None
     notes: tuple = ()
     units: dict | None = None
+    sources: object = None
 
 
 def _files_of(paths) -> list[Path]:
@@ -301,9 +303,13 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
     columns = column_table(per_table, units)
     emit_notes(notes, columns)
     ignored = sorted(set(columns.loc[columns["role"].isin(["ignored", "sample"]), "column"]))
+    sources = table.groupby("source_file", sort=False).agg(
+        seasons=("season", lambda s: ", ".join(sorted(set(s)))), rows=("player_id", "size")).reset_index()
+    sources = sources.rename(columns={"source_file": "file"})
     return RawSeasons(table=table, features=tuple(all_features), files=tuple(str(f) for f in files),
                       ignored_columns=tuple(ignored), columns=columns,
-                      notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes), units=units)
+                      notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes), units=units,
+                      sources=sources)
 
 
 def _refuse_repeats(table):
