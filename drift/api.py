@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from .config import Config
+from .datacheck import check_data as check  # noqa: F401 -- `drift check`, a dry run (no fitting)
 from .errors import InputError
 from .progress import stages
 from .threads import thread_limited
@@ -27,11 +28,7 @@ class Prepared:
     ``seasons``: every combined player-season; ``kept``: those passing the filters;
     ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
     players; ``missing``: per-feature counts of missing values and what was done;
-    ``columns``: how each export column was understood, one row per file and column
-    (``file, column, role, drift_name, family, play_type, unit, how, note``; see
-    :mod:`drift.intake_report`); ``notes``: every conversion and intake warning, one line
-    each; ``units``: feature -> unit as read; ``sources``: one row per file or sheet read
-    (``file, seasons, rows``).
+    ``columns``, ``notes``, ``units``, ``sources``: what intake understood (:class:`~drift.intake.RawSeasons`).
     """
 
     seasons: object
@@ -247,21 +244,6 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
             write_csv(table, folder / name)
     with st.stage("report", len(analysis.placements)):
         write_report(analysis, folder / "report.html")
-
-
-def check(data, config: Config | None = None):
-    """Dry run: read and filter ``data`` as :func:`run` would, fit nothing.
-
-    Returns
-    -------
-    drift.datacheck.DataCheck
-        How every column was read, units, seasons and files, kept and excluded
-        player-seasons by reason, every warning, and ``problems`` (empty when a
-        run would work). Print it with :func:`drift.datacheck.format_check`.
-    """
-    from .datacheck import check_data
-
-    return check_data(data, config)
 
 
 def _as_list(data):
