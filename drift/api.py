@@ -12,7 +12,6 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from .config import Config
-from .datacheck import check_data as check  # noqa: F401 -- `drift check`, a dry run (no fitting)
 from .errors import InputError
 from .progress import stages
 from .threads import thread_limited
@@ -28,7 +27,7 @@ class Prepared:
     ``seasons``: every combined player-season; ``kept``: those passing the filters;
     ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
     players; ``missing``: per-feature counts of missing values and what was done;
-    ``columns``, ``notes``, ``units``, ``sources``: what intake understood (:class:`~drift.intake.RawSeasons`).
+    ``reading``: how each column was read, units, conversions (:class:`~drift.intake.IntakeReading`).
     """
 
     seasons: object
@@ -39,10 +38,7 @@ class Prepared:
     missing: object
     files: tuple
     ignored_columns: tuple
-    columns: object = None
-    notes: tuple = ()
-    units: dict = field(default_factory=dict)
-    sources: object = None
+    reading: object = None
 
 
 @dataclass(frozen=True)
@@ -129,8 +125,7 @@ def prepare(data, config: Config | None = None, *, progress=None) -> Prepared:
         frame.attrs["features"] = raw.features
     return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
                     features=raw.features, missing=missing, files=raw.files,
-                    ignored_columns=raw.ignored_columns, columns=raw.columns, notes=raw.notes,
-                    units=dict(raw.units or {}), sources=raw.sources)
+                    ignored_columns=raw.ignored_columns, reading=raw.reading)
 
 
 def reference_pool(prepared: Prepared, reference=None):
@@ -244,6 +239,12 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
             write_csv(table, folder / name)
     with st.stage("report", len(analysis.placements)):
         write_report(analysis, folder / "report.html")
+
+
+def check(data, config: Config | None = None):
+    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.datacheck.DataCheck`."""
+    from .datacheck import check_data
+    return check_data(lambda: prepare(data, config), config or Config(), check_seasons)
 
 
 def _as_list(data):

@@ -52,7 +52,7 @@ def _season_table(prepared):
 
     seasons = prepared.seasons
     rows = []
-    sources = prepared.sources if prepared.sources is not None else pd.DataFrame(columns=["file", "seasons", "rows"])
+    sources = prepared.reading.sources
     for season in sorted(seasons["season"].unique()):
         files = [f for f, s in zip(sources["file"], sources["seasons"]) if season in s.split(", ")]
         kept = int((prepared.kept["season"] == season).sum())
@@ -62,8 +62,7 @@ def _season_table(prepared):
     return pd.DataFrame(rows)
 
 
-def _run_problems(prepared, config):
-    from .api import check_seasons
+def _run_problems(prepared, config, check_seasons):
     from .errors import DriftError
 
     problems = []
@@ -84,8 +83,16 @@ def _run_problems(prepared, config):
     return problems
 
 
-def check_data(data, config=None) -> DataCheck:
-    """Dry run of a ``drift run`` on ``data``: intake and filters, no fitting.
+def check_data(prepare, config, check_seasons) -> DataCheck:
+    """Dry run of a ``drift run``: intake and filters, no fitting (called by :func:`drift.api.check`).
+
+    Parameters
+    ----------
+    prepare : callable
+        Reads and filters the data, returning a :class:`~drift.api.Prepared`.
+    config : Config
+    check_seasons : callable
+        ``(prepared, config)``; raises when seasons named in the config are missing.
 
     Returns
     -------
@@ -95,16 +102,13 @@ def check_data(data, config=None) -> DataCheck:
     """
     import warnings
 
-    from .api import prepare
-    from .config import Config
     from .errors import DriftError, DriftWarning
     from .intake_report import column_summary
 
-    config = config or Config()
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", DriftWarning)
         try:
-            prepared = prepare(data, config)
+            prepared = prepare()
         except DriftError as exc:
             said = tuple(str(w.message) for w in caught if issubclass(w.category, DriftWarning))
             return DataCheck(warnings=said, problems=(str(exc),))
@@ -112,8 +116,8 @@ def check_data(data, config=None) -> DataCheck:
     excluded = prepared.excluded
     by_reason = (excluded["reason"].map(_reason_kind).value_counts().rename_axis("reason").reset_index(name="n")
                  if len(excluded) else None)
-    return DataCheck(prepared=prepared, columns=column_summary(prepared.columns), seasons=_season_table(prepared),
-                     excluded_by_reason=by_reason, warnings=said, problems=tuple(_run_problems(prepared, config)),
+    return DataCheck(prepared=prepared, columns=column_summary(prepared.reading.columns), seasons=_season_table(prepared),
+                     excluded_by_reason=by_reason, warnings=said, problems=tuple(_run_problems(prepared, config, check_seasons)),
                      features=prepared.features)
 
 
@@ -133,7 +137,7 @@ def format_check(check: DataCheck) -> str:
     parts = []
     if check.prepared is not None:
         p = check.prepared
-        n_files = len(p.sources) if p.sources is not None else len(p.files)
+        n_files = len(p.reading.sources)
         parts.append(f"Read {n_files} table(s), {len(check.seasons)} season(s), {len(p.seasons)} player-seasons "
                      f"({len(p.kept)} kept, {len(p.excluded)} excluded), {len(p.features)} features.")
         parts.append("\nSeasons\n" + _text_table(check.seasons, ["season", "player_seasons", "kept", "excluded",

@@ -20,7 +20,7 @@ from pathlib import Path
 from .config import REQUIRED_COLUMNS, STANDARD_COLUMNS, Config
 from .errors import InputError
 
-__all__ = ["RawSeasons", "read_seasons", "SUPPORTED_SUFFIXES", "COLUMN_TABLE_FIELDS"]
+__all__ = ["RawSeasons", "IntakeReading", "read_seasons", "SUPPORTED_SUFFIXES", "COLUMN_TABLE_FIELDS"]
 
 SUPPORTED_SUFFIXES = (".csv", ".xlsx", ".parquet")
 _TEXT = ("player_id", "player", "season", "team")
@@ -30,25 +30,35 @@ COLUMN_TABLE_FIELDS = ("file", "column", "role", "drift_name", "family", "play_t
 
 
 @dataclass(frozen=True)
+class IntakeReading:
+    """How an export was read.
+
+    ``columns``: one row per file and column with :data:`COLUMN_TABLE_FIELDS` (how it
+    was understood); ``notes``: conversions and warnings, one line each; ``units``:
+    feature -> unit; ``sources``: one row per file (or sheet) read: ``file, seasons, rows``.
+    """
+
+    columns: object
+    notes: tuple
+    units: dict
+    sources: object
+
+
+@dataclass(frozen=True)
 class RawSeasons:
     """Rows as read.
 
     ``table``: standard columns present, features, source_file, source_row.
     ``features``: feature names in order. ``files``: the files read.
-    ``ignored_columns``: export columns not used (any reason). ``columns``: one row
-    per file and column with :data:`COLUMN_TABLE_FIELDS` (how it was understood).
-    ``notes``: conversions and warnings, one line each. ``units``: feature -> unit.
-    ``sources``: one row per file (or sheet) read: ``file, seasons, rows``.
+    ``ignored_columns``: export columns not used (any reason). ``reading``: how each
+    column was understood, conversions and units (:class:`IntakeReading`).
     """
 
     table: object  # pandas.DataFrame
     features: tuple
     files: tuple
     ignored_columns: tuple
-    columns: object = None
-    notes: tuple = ()
-    units: dict | None = None
-    sources: object = None
+    reading: IntakeReading | None = None
 
 
 def _files_of(paths) -> list[Path]:
@@ -307,9 +317,9 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
         seasons=("season", lambda s: ", ".join(sorted(set(s)))), rows=("player_id", "size")).reset_index()
     sources = sources.rename(columns={"source_file": "file"})
     return RawSeasons(table=table, features=tuple(all_features), files=tuple(str(f) for f in files),
-                      ignored_columns=tuple(ignored), columns=columns,
-                      notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes), units=units,
-                      sources=sources)
+                      ignored_columns=tuple(ignored), reading=IntakeReading(
+                          columns=columns, notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes),
+                          units=units, sources=sources))
 
 
 def _refuse_repeats(table):

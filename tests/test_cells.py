@@ -76,4 +76,4 @@ def test_percent_strings_in_a_file_are_reported(tmp_path):
     t.to_csv(tmp_path / "2024-25.csv", index=False)
     with pytest.warns(DataQualityWarning, match="usage_pct: percent strings parsed as numbers"):
         raw = read_seasons(tmp_path)
-    assert raw.units["usage_pct"] == "percent" and raw.table["usage_pct"].between(12, 30).all()
+    assert raw.reading.units["usage_pct"] == "percent" and raw.table["usage_pct"].between(12, 30).all()

@@ -199,7 +199,7 @@ def test_demo_written_as_a_real_export_reads_like_the_demo(tmp_path, demo_prepar
     pd.testing.assert_frame_equal(prepared.kept[cols], demo_prepared.kept[cols], check_dtype=False)
     placed = demo_model.place(prepared.kept)
     assert (placed["role"].to_numpy() == demo_analysis.placements["role"].to_numpy()).all()
-    ignored = prepared.columns.drop_duplicates("column").set_index("column")
+    ignored = prepared.reading.columns.drop_duplicates("column").set_index("column")
     assert ignored.loc["TEAM_ID", "role"] == "ignored" and "id" in ignored.loc["TEAM_ID", "note"]
     assert ignored.loc["AGE", "role"] == "ignored" and "age" in ignored.loc["AGE", "note"]
     assert ignored.loc["ISO_PPP", "family"] == "efficiency" and ignored.loc["ISO_PPP", "play_type"] == "isolation"

@@ -85,7 +85,7 @@ def test_a_season_of_rates_in_fractions_is_converted_to_the_others_unit(tmp_path
         _write(tmp_path, block, s)
     with pytest.warns(DataQualityWarning, match="usage_pct in fractions, converted to percent"):
         raw = read_seasons(tmp_path)
-    assert raw.table["usage_pct"].between(12, 30).all() and raw.units["usage_pct"] == "percent"
+    assert raw.table["usage_pct"].between(12, 30).all() and raw.reading.units["usage_pct"] == "percent"
 
 
 def test_rates_whose_unit_cannot_be_told_are_refused(tmp_path):
