@@ -13,6 +13,7 @@ from pathlib import Path
 
 from .config import Config
 from .errors import InputError
+from .preflight import check_settings
 from .progress import stages
 from .threads import thread_limited
 
@@ -148,6 +149,7 @@ def fit_model(prepared: Prepared, config: Config | None = None, *, progress=None
     from .model import RoleModel
 
     config = config or Config()
+    check_settings(prepared, config)
     pool = reference_pool(prepared, config.reference)
     model = RoleModel.from_settings(config.model)
     try:
@@ -182,7 +184,7 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
         moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
                             processed=kept_processed)]
         if config.compare:
-            check_seasons(prepared, config)
+            check_settings(prepared, config)
             j1, j2 = requested_pairs(kept, *config.compare)
             moves.append(pair_moves(model, kept, placements, j1, j2, alpha=config.alpha, kind="requested",
                                     processed=kept_processed))
@@ -251,22 +253,6 @@ def _as_list(data):
     return [data] if isinstance(data, (str, Path)) else list(data)
 
 
-def check_seasons(prepared: Prepared, config: Config) -> None:
-    """Refuse, before any fitting, seasons named in ``config`` that the data lacks."""
-    available = sorted(set(prepared.kept["season"]))
-    if config.reference:
-        unknown = [s for s in config.reference if s not in available]
-        if unknown:
-            raise InputError(f"reference season(s) {unknown} are not in the data; available: {available}")
-    if config.compare:
-        a, b = config.compare
-        if a == b:
-            raise InputError(f"--compare needs two different seasons, got {a!r} twice")
-        for s in (a, b):
-            if s not in available:
-                raise InputError(f"--compare season {s!r} is not in the data; available: {available}")
-
-
 @thread_limited(fitting=True)
 def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         progress=None) -> Analysis:
@@ -304,7 +290,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     check_output_folder(out, inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config, progress=st)
-    check_seasons(prepared, config)
+    check_settings(prepared, config)
     if prev is not None and not set(prev.features_) & set(prepared.features):
         raise InputError(f"--previous model {previous} shares no feature with the data; it cannot "
                          "carry role ids, give a model fitted on the same kind of export")

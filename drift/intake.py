@@ -107,12 +107,18 @@ def _refuse_clashes(readings, where):
                 file=where)
 
 
-def _require(readings, frame, table):
+def _require(readings, frame, table, config):
     where = table.where
     present = {r.name for r in readings if r.role == "standard"}
     missing = [c for c in REQUIRED_COLUMNS if c not in present and not (c == "season" and table.name_season)]
     if missing == ["season"]:
         raise InputError(table.name_problem, file=where)
+    unmatched = [c for c in missing if c in config.columns]
+    if unmatched:
+        c = unmatched[0]
+        raise InputError(f"the config's [columns] maps {c} to {config.columns[c]!r}, but this file has no "
+                         f"such column; fix the name in [columns] (columns here: {', '.join(frame.columns[:12])})",
+                         file=where)
     if missing:
         hint = ", ".join(f'{m} = "..."' for m in missing)
         cols = list(frame.columns)
@@ -211,7 +217,7 @@ def _read_table(table, config, notes):
         raise InputError("file is empty; remove it or add its season's rows", file=where)
     readings = understand_columns(list(frame.columns), config)
     _refuse_clashes(readings, where)
-    _require(readings, frame, table)
+    _require(readings, frame, table, config)
     if frame.empty:
         raise InputError("file has a header but no rows; remove it or add its season's rows", file=where)
     used = [r for r in readings if r.role in ("standard", "feature", "unknown")]
@@ -292,6 +298,11 @@ def read_seasons(paths, config: Config | None = None) -> RawSeasons:
             frames.append(frame)
             per_table.append((table.where, readings))
             rate_units.append((frame, table.where, units))
+    seen = {r.source for _, rs in per_table for r in rs}
+    unused = [f"{ours} = {theirs!r}" for ours, theirs in config.columns.items() if theirs not in seen]
+    if unused:
+        raise InputError(f"the config's [columns] entry {unused[0]} matches no column of the data; fix or "
+                         "remove it", file=files[0])
     all_features = _feature_order(per_table, config)
     if not all_features:
         raise InputError("no numeric feature columns found; see README 'Input tables'", file=files[0])

@@ -18,7 +18,6 @@ in ``out``).
 
 from __future__ import annotations
 
-import json
 import os
 import secrets
 import signal
@@ -26,12 +25,11 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from .errors import InputError
+from .ownership import MARKER, clean_litter, files_under, read_marker, remove_owned, write_marker
 
 __all__ = ["MARKER", "check_inputs", "check_output_folder", "atomic_folder", "check_output_file",
            "atomic_file"]
 
-#: the marker file drift writes into every output folder
-MARKER = ".drift-output.json"
 _TEST_KILL = "_DRIFT_TEST_KILL_AT"  # test-only: SIGKILL ourselves at a named step
 _TEST_NO_EXCHANGE = "_DRIFT_TEST_NO_EXCHANGE"  # test-only: use the two-rename fallback
 
@@ -63,131 +61,6 @@ def check_inputs(out, inputs, *, what="--out"):
         if real in out_real.parents:
             raise InputError(f"{what} lies inside the input folder {given}; the next run would read "
                              "it as data, choose a path outside it", file=out)
-
-
-def _pid_alive(pid: int) -> bool:
-    if pid == os.getpid():
-        return True
-    try:
-        os.kill(pid, 0)
-    except ProcessLookupError:
-        return False
-    except (PermissionError, OverflowError):
-        return True
-    return True
-
-
-def _litter_pid(name: str, target: str):
-    """The pid in a litter name ``.<target>.drift-(new|old|tmp)-<pid>-<hex>``, else None."""
-    prefix = f".{target}.drift-"
-    if not name.startswith(prefix):
-        return None
-    parts = name[len(prefix):].split("-")
-    if len(parts) != 3 or parts[0] not in ("new", "old", "tmp") or not parts[1].isdigit():
-        return None
-    return parts[0], int(parts[1])
-
-
-def _read_marker(folder: Path):
-    """The marker's dict, or None when there is none or it is not drift's."""
-    path = folder / MARKER
-    try:
-        if path.is_symlink() or not path.is_file() or path.stat().st_size > 1_000_000:
-            return None
-        data = json.loads(path.read_text(encoding="utf-8"))
-    except (OSError, ValueError):
-        return None
-    if (not isinstance(data, dict) or data.get("written_by") != "drift"
-            or data.get("state") not in ("staging", "complete")
-            or not isinstance(data.get("files"), list)
-            or not all(isinstance(f, str) and _safe_relative(f) for f in data["files"])):
-        return None
-    return data
-
-
-def _safe_relative(path: str) -> bool:
-    parts = path.split("/")
-    return bool(path) and not path.startswith("/") and all(p not in ("", ".", "..") for p in parts)
-
-
-def _files_under(folder: Path, rel="") -> list:
-    """Relative paths ('a.csv', 'truth/t.csv') of the regular files drift wrote under ``folder``."""
-    found = []
-    for entry in sorted(folder.iterdir()):
-        r = rel + entry.name
-        if entry.is_dir() and not entry.is_symlink():
-            found += _files_under(entry, r + "/")
-        elif entry.is_file() and not entry.is_symlink() and r != MARKER:
-            found.append(r)
-    return found
-
-
-def _write_marker(folder: Path, state: str, files=()):
-    text = json.dumps({"written_by": "drift", "state": state, "files": sorted(files)}, indent=1)
-    (folder / MARKER).write_text(text + "\n", encoding="utf-8")
-
-
-def _twins(a: Path, b: Path) -> bool:
-    """True when ``a`` and ``b`` are the same file (hard links) or equal symbolic links."""
-    try:
-        if a.is_symlink():
-            return b.is_symlink() and os.readlink(a) == os.readlink(b)
-        sa, sb = os.lstat(a), os.lstat(b)
-    except OSError:
-        return False
-    return (sa.st_dev, sa.st_ino) == (sb.st_dev, sb.st_ino)
-
-
-def _remove_owned(folder: Path, owned, twin_root, rel="") -> None:
-    """Remove from ``folder`` only what drift can prove is its own, then the folder if empty.
-
-    ``owned`` is a set of relative paths, or None for a staging folder (every regular file in
-    it was written by drift). Anything else is removed only when ``twin_root`` holds its twin.
-    """
-    for entry in list(folder.iterdir()):
-        r = rel + entry.name
-        twin = twin_root / entry.name if twin_root is not None else None
-        if entry.is_dir() and not entry.is_symlink():
-            _remove_owned(entry, owned, twin, r + "/")
-            continue
-        mine = ((r == MARKER) or (owned is not None and r in owned)
-                or (owned is None and entry.is_file() and not entry.is_symlink()))
-        if mine or (twin is not None and _twins(entry, twin)):
-            entry.unlink()
-    try:
-        folder.rmdir()
-    except OSError:
-        pass  # something we cannot prove is ours is still there: leave it
-
-
-def _clean_litter(out: Path) -> None:
-    """Restore an output moved away by an interrupted run, and remove provable litter."""
-    parent = out.parent
-    if not parent.is_dir():
-        return
-    found = []
-    for entry in parent.iterdir():
-        tag = _litter_pid(entry.name, out.name)
-        if tag is not None and not _pid_alive(tag[1]) and not entry.is_symlink():
-            found.append((tag[0], entry))
-    if not os.path.lexists(out):
-        backups = [e for kind, e in found if kind == "old" and e.is_dir()
-                   and (_read_marker(e) or {}).get("state") == "complete"]
-        if backups:
-            newest = max(backups, key=lambda e: e.stat().st_mtime)
-            os.rename(newest, out)
-            found = [(k, e) for k, e in found if e != newest]
-    for kind, entry in found:
-        if entry.is_dir():
-            marker = _read_marker(entry)
-            if marker is None:
-                if not any(entry.iterdir()):
-                    entry.rmdir()
-                continue
-            owned = None if marker["state"] == "staging" else set(marker["files"])
-            _remove_owned(entry, owned, out if out.is_dir() else None)
-        elif kind == "tmp" and entry.is_file():
-            entry.unlink()
 
 
 def _nearest_existing(path: Path) -> Path:
@@ -226,7 +99,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
     out = _abs(out)
     check_inputs(out, inputs)
     _check_parent(out, "--out")
-    _clean_litter(out)
+    clean_litter(out)
     if out.is_symlink():
         raise InputError("--out is a symbolic link; give the folder itself", file=out)
     if not out.exists():
@@ -236,7 +109,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
     if not os.access(out, os.W_OK | os.X_OK):
         raise InputError("--out cannot be written: no write permission", file=out)
     present = {p.name for p in out.iterdir()} - {MARKER}
-    marker = _read_marker(out)
+    marker = read_marker(out)
     if marker is None or marker["state"] != "complete":
         if present or (out / MARKER).exists():
             raise InputError(f"--out is a non-empty folder that is not a drift output (no valid {MARKER}); "
@@ -322,8 +195,8 @@ def _staging(out: Path, kind: str) -> Path:
 
 
 def _commit(tmp: Path, out: Path, inputs) -> None:
-    state = check_output_folder(out, inputs=inputs, names=_files_under(tmp))
-    _write_marker(tmp, "complete", _files_under(tmp))
+    state = check_output_folder(out, inputs=inputs, names=files_under(tmp))
+    write_marker(tmp, "complete", files_under(tmp))
     with _signals_held():
         if not out.exists():
             os.rename(tmp, out)
@@ -339,7 +212,7 @@ def _commit(tmp: Path, out: Path, inputs) -> None:
             os.rename(tmp, out)
         _test_point("swapped")
         try:
-            _remove_owned(old, state["owned"], out)
+            remove_owned(old, state["owned"], out)
         except OSError:
             pass  # the new output is in place; the next run removes what is left
 
@@ -358,7 +231,7 @@ def atomic_folder(out, *, inputs=()):
     tmp.mkdir()
     committed = False
     try:
-        _write_marker(tmp, "staging")
+        write_marker(tmp, "staging")
         _test_point("staging")
         os.chmod(tmp, 0o777 & ~_umask())
         yield tmp
@@ -367,7 +240,7 @@ def atomic_folder(out, *, inputs=()):
         committed = True  # after the swap ``tmp`` may hold the old output: _commit cleaned it
     finally:
         if not committed and tmp.exists():
-            _remove_owned(tmp, None, out if out.is_dir() else None)
+            remove_owned(tmp, None, out if out.is_dir() else None)
 
 
 def _umask() -> int:
@@ -385,7 +258,7 @@ def check_output_file(path, *, inputs=(), header=("player_id", "role"), what="--
     path = _abs(path)
     check_inputs(path, inputs, what=what)
     _check_parent(path, what)
-    _clean_litter(path)
+    clean_litter(path)
     if path.is_symlink() or (path.exists() and not path.is_file()):
         raise InputError(f"{what} exists and is not a regular file; give a file path", file=path)
     if path.exists() and path.stat().st_size > 0:

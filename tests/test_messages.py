@@ -22,8 +22,8 @@ def test_third_party_warnings_are_counted_once_each_and_never_loop(capsys):
 
         for _ in range(50):
             np.log(np.zeros(3))  # numpy's "divide by zero" RuntimeWarning, 50 times
-        warnings.warn("a look is needed", DataQualityWarning)
-        warnings.warn("deprecated thing", DeprecationWarning)
+        warnings.warn("a look is needed", DataQualityWarning, stacklevel=1)
+        warnings.warn("deprecated thing", DeprecationWarning, stacklevel=1)
         return "drift: done"
 
     assert run_guarded(job, None) == 0
@@ -37,7 +37,7 @@ def test_third_party_warnings_are_counted_once_each_and_never_loop(capsys):
 
 def test_warnings_print_before_the_error_line(capsys):
     def job(args):
-        warnings.warn("first", DataQualityWarning)
+        warnings.warn("first", DataQualityWarning, stacklevel=1)
         raise InputError("bad value", file="x.csv", row=3, column="games")
 
     assert run_guarded(job, None) == 2
@@ -135,7 +135,7 @@ def test_debug_flag_is_accepted_before_and_after_the_command():
 def test_warnings_differing_only_in_numbers_are_one_line(capsys):
     def job(args):
         for k in range(3, 9):
-            warnings.warn(f"found {k - 1} distinct clusters, fewer than {k}", UserWarning)
+            warnings.warn(f"found {k - 1} distinct clusters, fewer than {k}", UserWarning, stacklevel=1)
         return "drift: done"
 
     assert run_guarded(job, None) == 0

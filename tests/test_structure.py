@@ -15,7 +15,6 @@ MAX_MODULE, MAX_CLASS, MAX_FUNCTION = 400, 250, 80
 KNOWN_OVER = {
     "drift.api": 449,
     "drift.demo.generate_league": 86,
-    "drift.outputs": 419,
     "drift.simulate": 418,
     "drift.simulate.simulate_league": 92,
 }
