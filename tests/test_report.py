@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dataclasses
+import re
 import subprocess
 import sys
 from html.parser import HTMLParser
@@ -10,6 +11,7 @@ from html.parser import HTMLParser
 import pytest
 
 from drift.report import CAUTIONS, ReportContext, build_context, render_report
+from drift.report.players import PROFILE_ROWS
 
 
 class _Page(HTMLParser):
@@ -34,8 +36,13 @@ class _Page(HTMLParser):
 
 
 @pytest.fixture(scope="module")
-def page(demo_analysis):
-    html = render_report(build_context(demo_analysis))
+def context(demo_analysis):
+    return build_context(demo_analysis)
+
+
+@pytest.fixture(scope="module")
+def page(context):
+    html = render_report(context)
     parser = _Page()
     parser.feed(html)
     parser.html = html
@@ -44,13 +51,14 @@ def page(demo_analysis):
 
 
 def test_sections_present(page):
-    assert {"limits", "summary", "roles", "changes", "unsettled", "trades", "drift", "model",
+    assert {"limits", "review", "earlier", "summary", "players", "teams", "roles", "method", "drift", "model",
             "features", "data"} <= page.ids
 
 
 def test_self_contained(page):
-    assert page.external == []
-    assert "<script" not in page.html
+    assert page.external == []  # no src or href leaves the file (data: URIs and #anchors only)
+    assert "<script src" not in page.html and "url(" not in page.html.replace("url(#", "")
+    assert not re.search(r'(src|href)="(https?:)?//', page.html)  # xmlns names are identifiers, not requests
     assert page.tags.count("svg") >= 5  # charts are inline SVG
 
 
@@ -71,9 +79,10 @@ def test_roles_and_moves_are_shown(page, demo_analysis):
 def test_player_names_are_escaped(demo_analysis):
     moves = demo_analysis.moves.copy()
     idx = moves.index[moves["status"] == "changed"][0]
-    moves.loc[idx, "player"] = "<b>Bold</b>"
+    moves.loc[idx, "player"] = "<b>Bold</b></script>"
     html = render_report(build_context(dataclasses.replace(demo_analysis, moves=moves)))
     assert "&lt;b&gt;Bold&lt;/b&gt;" in html and "<b>Bold</b>" not in html
+    assert html.count("</script>") == 2  # the search index cannot be closed early by a name
 
 
 def test_context_fields_are_documented():
@@ -82,8 +91,8 @@ def test_context_fields_are_documented():
         assert f.name in doc, f"ReportContext.{f.name} is not documented"
 
 
-def test_report_is_deterministic(demo_analysis):
-    assert render_report(build_context(demo_analysis)) == render_report(build_context(demo_analysis))
+def test_report_is_deterministic(demo_analysis, page):
+    assert render_report(build_context(demo_analysis)) == page.html
 
 
 def test_templates_found_from_any_folder(tmp_path):
@@ -100,8 +109,94 @@ def test_requested_comparison_and_comparables_shown(demo_prepared, demo_model):
     analysis = analyse(demo_prepared, demo_model, Config(compare=("2019-20", "2024-25")))
     context = build_context(analysis)
     assert context.requested_label == "2019-20 → 2024-25" and len(context.requested) > 50
+    assert {r["note"] for r in context.requested} == {"requested comparison"}
     page = _Page()
     page.feed(render_report(context))
     assert "requested" in page.ids
-    row = context.changed[0]
-    assert row["comparables"].count("(") == 3  # three nearest reference player-seasons
+    row = context.latest_moves[0]
+    assert row["status"] == "changed" and row["comparables"].count("(") == 3  # three nearest reference seasons
+
+
+def test_every_player_and_team_has_a_page_and_links_resolve(page, demo_analysis):
+    placements = demo_analysis.placements
+    players = [a for a in page.ids if a.startswith("p-") and not a.endswith(("-moves", "-trades"))]
+    assert len(players) == placements["player_id"].nunique()
+    teams = {t for value in placements["team"].astype(str) for t in value.split("/")}
+    assert {f"t-{t}" for t in teams} <= page.ids
+    targets = set(re.findall(r'href="#([^"]+)"', page.html))
+    assert targets <= page.ids, sorted(targets - page.ids)[:5]
+
+
+def test_latest_pair_leads_and_labels_are_honest(context, demo_analysis):
+    seasons = context.seasons
+    assert context.latest_label == f"{seasons[-2]} → {seasons[-1]}"
+    assert all(r["pair"].endswith(seasons[-1]) for r in context.latest_moves)
+    order = {s: i for i, s in enumerate(seasons)}
+    for r in context.latest_moves + context.earlier_moves:
+        a, b = r["pair"].split(" → ")
+        assert (r["note"] == "") == (order[b] - order[a] == 1), r  # only true neighbours are unlabelled
+    assert {r["status"] for r in context.latest_moves} == {"changed", "unsettled", "shifted", "steady"}
+    assert all(r["status"] in {"changed", "unsettled", "shifted", "steady"} for r in context.latest_trades)
+    n_changed = int((demo_analysis.moves["status"] == "changed").sum())  # the terminal's count
+    assert dict(context.summary)["role changes beyond noise"].startswith(f"{n_changed:,}")
+
+
+def test_membership_never_reads_a_flat_hundred(context, page):
+    shown = [r[k] for r in context.latest_moves for k in ("prob_from", "prob_to")]
+    shown += [t["membership"] for p in context.players for t in p["timeline"]]
+    assert "100%" not in shown and ">99%" in shown
+    assert "&gt;99%" in page.html
+
+
+def test_missing_counts_agree_between_sections(context, demo_analysis):
+    by_table = {m["feature"]: m["missing"] for m in context.missing}
+    from drift.describe import feature_label
+
+    labels = {feature_label(f): f for f in demo_analysis.model.features_}
+    for row in context.reliability:
+        assert int(row["missing"].replace(",", "")) == by_table.get(labels[row["label"]], 0)
+
+
+def test_player_page_has_the_answers(context, demo_analysis):
+    traded = demo_analysis.stints["player_id"].iloc[0]
+    page = next(p for p in context.players if p["id"] == str(traded))
+    placed = demo_analysis.placements[demo_analysis.placements["player_id"] == traded]
+    assert [t["season"] for t in page["timeline"]] == sorted(placed["season"])
+    assert page["trades"] and all(m["status"] for m in page["trades"])
+    assert len(page["profile"]) == sum(PROFILE_ROWS)
+    assert all(0 <= float(f["percentile"]) <= 100 for f in page["profile"])
+    assert len(page["comparables"]) == 5 and "<svg" in page["path"]
+    if demo_analysis.outlook is not None and (demo_analysis.outlook["player_id"] == traded).any():
+        assert page["outlook"]["rows"]
+
+
+def test_large_leagues_page_the_players_the_review_needs(demo_analysis):
+    from drift.report.context import paged_players
+
+    latest = ("2023-24", "2024-25")
+    chosen = paged_players(demo_analysis, None, latest, limit=40)
+    assert len(chosen) == 40
+    moves = demo_analysis.moves
+    beyond = moves[(moves["season_to"] == "2024-25") & (moves["status"] != "steady")]["player_id"]
+    assert set(chosen[:10]) <= set(beyond)  # strongest evidence first
+
+
+def test_demo_report_is_bounded(page):
+    assert len(page.html.encode("utf-8")) < 8_000_000
+
+
+@pytest.mark.parametrize("value, text", [(0.339, "34%"), (0.0, "0%"), (0.9991, "100%")])
+def test_percent(value, text):
+    from drift.report.fmt import percent
+
+    assert percent(value) == text
+
+
+def test_membership_and_strength_words():
+    from drift.report.fmt import membership, strength
+
+    assert membership(0.9996) == ">99%" and membership(0.5) == "50%" and membership(0.004) == "<1%"
+    assert strength(0.2, 0.8, 0.01) == "within noise"
+    assert strength(0.001, 3.1, 0.01) == "beyond noise"
+    assert strength(1e-6, 4.8, 0.01) == "well beyond noise"
+    assert strength(1e-12, 7.0, 0.01) == "far beyond noise"

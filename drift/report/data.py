@@ -6,32 +6,50 @@ __all__ = ["build_summary", "build_drift", "build_features", "build_data"]
 
 
 def build_summary(analysis, b) -> dict:
-    """Headline counts and the page's heading facts."""
+    """Headline counts over every season, and the page's heading facts.
+
+    The count of role changes covers every comparison (consecutive seasons and the requested
+    one), as the command line prints it, with the split beside it.
+    """
     from .. import __version__
 
     model, placements = analysis.model, analysis.placements
-    consecutive = b.consecutive
-    status = consecutive["status"] if len(consecutive) else None
-    n_changed = int((status == "changed").sum()) if status is not None else 0
-    n_unsettled = int((status == "unsettled").sum()) if status is not None else 0
+    cons, req = b.consecutive, b.requested
+
+    def count(moves, status):
+        return int((moves["status"] == status).sum()) if len(moves) else 0
+
+    n_changed, n_req = count(cons, "changed"), count(req, "changed")
+    changes = f"{n_changed + n_req:,}" + (f" ({n_changed:,} between consecutive seasons, {n_req:,} in the "
+                                          "requested comparison)" if len(req) else "")
     summary = [
         ("player-seasons placed", f"{len(placements):,}"),
+        ("players / teams", f"{placements['player_id'].nunique():,} / {len(b.team_anchor):,}"),
         ("excluded by the filters", f"{len(analysis.prepared.excluded):,}"),
         ("reference pool", f"{model.n_pool_:,} player-seasons, {len(model.reference_seasons_)} seasons"),
         ("components / roles", f"{model.components_.shape[0]} / {len(model.role_ids_)}"),
-        ("season-to-season moves", f"{len(consecutive):,}"),
-        ("label flips between seasons", f"{n_changed + n_unsettled:,}"),
-        ("of which role changes beyond noise", f"{n_changed:,}"),
-        ("unsettled (label flip within noise)", f"{n_unsettled:,}"),
+        ("season-to-season moves", f"{len(cons):,}"),
+        ("role changes beyond noise", changes),
+        ("unsettled (between two roles, within noise)", f"{count(cons, 'unsettled'):,}"),
         ("mid-season trade stint pairs", f"{len(analysis.stints):,}"),
     ]
-    return {"title": "drift: role drift report", "drift_version": __version__,
-            "fingerprint": model.fingerprint_, "seasons": sorted(map(str, placements["season"].unique())),
-            "reference_seasons": list(model.reference_seasons_), "summary": summary}
+    return {"title": "drift: role review", "drift_version": __version__,
+            "fingerprint": model.fingerprint_, "seasons": b.seasons,
+            "reference_seasons": list(model.reference_seasons_), "summary": summary,
+            "player_pages_note": _pages_note(placements, b)}
+
+
+def _pages_note(placements, b):
+    n = placements["player_id"].nunique()
+    if len(b.player_anchor) >= n:
+        return ""
+    return (f"This league has {n:,} placed players; pages are given to the {len(b.player_anchor):,} the review "
+            "needs (moves beyond noise and unsettled labels of the latest season pair, the requested "
+            "comparison and the latest mid-season trades first). Every player is in placements.csv and moves.csv.")
 
 
 def build_drift(analysis, b) -> dict:
-    """Role-definition drift: the stage's headlines and the chart."""
+    """Role-definition drift: the stage's beyond-noise headlines and the chart."""
     from markupsafe import Markup
 
     from .. import charts
@@ -42,20 +60,22 @@ def build_drift(analysis, b) -> dict:
 
 
 def build_features(analysis, b) -> dict:
-    """Each feature's reliability (year-to-year r, signal share, weight, missing values)."""
+    """Each feature's reliability; missing values counted once, from the intake's table."""
     from markupsafe import Markup
 
     from .. import charts
     from ..describe import feature_label
+    from .fmt import percent, sig
 
     model = analysis.model
     noise = model.noise_
+    missing = analysis.prepared.missing.set_index("feature")["missing"]
     reliability = []
     for j, (feat, row) in enumerate(noise.iterrows()):
-        reliability.append({"feature": feat, "label": feature_label(feat), "family": row["family"],
-                            "r": row["year_to_year_r"], "signal_share": row["signal_share"],
-                            "weight": float(model.weights_[j]), "missing": int(row["missing"]),
-                            "median_sample": row["median_sample"]})
+        reliability.append({"label": feature_label(feat), "family": row["family"],
+                            "r": sig(row["year_to_year_r"], 2), "signal_share": percent(row["signal_share"], 2),
+                            "weight": sig(float(model.weights_[j]), 2), "missing": f"{int(missing.get(feat, 0)):,}",
+                            "median_sample": f"{row['median_sample']:,.0f}"})
     return {"reliability": reliability,
             "reliability_chart": Markup(charts.reliability_chart(noise, model.weights_))}
 
@@ -77,9 +97,10 @@ def build_data(analysis, b) -> dict:
             .reset_index(name="count").to_dict(orient="records")) if len(excluded) else []
     missing = prepared.missing[prepared.missing["missing"] > 0]
     oor = placements[placements["out_of_reference"]].sort_values("distance", ascending=False)
-    out_of_reference = [{"player": r["player"], "season": r["season"], "team": r["team"],
-                         "role": r["role"], "distance": r["distance"]}
-                        for r in oor.head(25).to_dict(orient="records")]
+    out_of_reference = [{"player": r["player"], "anchor": b.player_anchor.get(r["player_id"], ""),
+                         "season": r["season"], "team": r["team"], "role": r["role"],
+                         "distance": f"{r['distance']:.2f}"} for r in oor.head(25).to_dict(orient="records")]
     return {"excluded_summary": excl, "missing": missing.to_dict(orient="records"),
             "ignored_columns": list(prepared.ignored_columns),
-            "files": [str(f) for f in prepared.files], "out_of_reference": out_of_reference}
+            "files": [str(f) for f in prepared.files], "out_of_reference": out_of_reference,
+            "out_of_reference_total": int(len(oor))}

@@ -1,8 +1,40 @@
-"""Move tables: role changes, unsettled, shifted, mid-season trades, the requested comparison."""
+"""Move rows for every table (front page, player and team pages) and the method section's noise chart.
+
+A row carries what the tables print (words, percentages, role chips, status) and the data
+attributes the page's filters read (team, role, season pair, status, traded).
+"""
 
 from __future__ import annotations
 
-__all__ = ["build_moves", "move_rows"]
+__all__ = ["MAX_ROWS", "pair_label", "move_rows", "capped", "build_method_moves", "STATUS_ORDER"]
+
+#: Longest table printed in full; longer ones show their strongest rows and point to the CSV.
+MAX_ROWS = 400
+STATUS_ORDER = {"changed": 0, "unsettled": 1, "shifted": 2, "steady": 3}
+
+
+def pair_label(row, season_index) -> tuple[str, str]:
+    """(pair text, kind note): "2023-24 → 2024-25" and "" / "skips a season" / "requested" / "trade"."""
+    a, b = str(row["season_from"]), str(row["season_to"])
+    kind = row.get("kind", "consecutive")
+    if kind == "stint":
+        return f"{a} stint {row.get('stint_from', '')} → {row.get('stint_to', '')}", "mid-season trade"
+    if kind == "requested":
+        return f"{a} → {b}", "requested comparison"
+    gap = season_index.get(b, 0) - season_index.get(a, 0)
+    return f"{a} → {b}", ("skips a season" if gap == 2 else f"skips {gap - 1} seasons" if gap > 2 else "")
+
+
+def _change_text(name, change):
+    from .fmt import sig
+
+    if name.startswith("ppp_"):
+        return f"{change:+.2f} points per possession"
+    if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
+        return f"{100 * change:+.1f} pts"
+    if name.endswith("_pct"):
+        return f"{change:+.1f} pts"
+    return f"{'+' if change >= 0 else ''}{sig(change, 2)}"
 
 
 def _drivers(row, n=3):
@@ -11,61 +43,63 @@ def _drivers(row, n=3):
     parts = []
     for i in range(1, n + 1):
         name = row.get(f"driver_{i}")
-        if not isinstance(name, str):
-            continue
-        parts.append(f"{feature_label(name)} {row[f'driver_{i}_change']:+.3g} "
-                     f"({row[f'driver_{i}_change_sd']:+.1f} SD, {row[f'driver_{i}_share']:.0%} of the move)")
-    return "; ".join(parts)
+        if isinstance(name, str):
+            parts.append(f"{feature_label(name)} {_change_text(name, row[f'driver_{i}_change'])}")
+    return ", ".join(parts)
 
 
-def move_rows(moves, names, comps=None):
-    """Moves formatted for a table, in the order given."""
-    comps = comps or {}
+def move_rows(moves, b, *, comps=True):
+    """Moves formatted for a table, in the order given (see the ``ReportContext`` docs for the keys)."""
+    from .fmt import figures_title, membership, strength
+
     rows = []
     for row in moves.to_dict(orient="records"):
+        pair, note = pair_label(row, b.season_index)
         rows.append({
-            "player": row["player"], "player_id": row["player_id"],
-            "seasons": (f"{row['season_from']} → {row['season_to']}" if row["season_from"] != row["season_to"]
-                        else f"{row['season_from']} stint {row.get('stint_from', '')} → {row.get('stint_to', '')}"),
-            "teams": f"{row['team_from']} → {row['team_to']}", "traded": bool(row["traded"]),
-            "role_from": f"{row['role_from']} {names.get(row['role_from'], '')}",
-            "role_to": f"{row['role_to']} {names.get(row['role_to'], '')}",
-            "prob_from": row["prob_from"], "prob_to": row["prob_to"],
-            "distance": row["distance"], "noise": row["noise_distance"], "z": row["z"],
-            "percentile": row["percentile"], "minutes": f"{row['minutes_from']:.0f} / {row['minutes_to']:.0f}",
+            "player": row["player"], "anchor": b.player_anchor.get(row["player_id"], ""),
+            "pair": pair, "note": note, "team_from": str(row["team_from"]), "team_to": str(row["team_to"]),
+            "teams": f"{row['team_from']} → {row['team_to']}" if row["team_from"] != row["team_to"] else str(row["team_to"]),
+            "traded": bool(row["traded"]),
+            "role_from": b.role(row["role_from"]), "role_to": b.role(row["role_to"]),
+            "prob_from": membership(row["prob_from"]), "prob_to": membership(row["prob_to"]),
+            "status": row["status"], "words": strength(row["p_value"], row["z"], b.alpha),
+            "figures": figures_title(row["distance"], row["noise_distance"], row["z"], row["p_value"]),
+            "z": float(row["z"]), "z_key": f"{row['z']:.4f}", "minutes": f"{row['minutes_from']:,.0f} / {row['minutes_to']:,.0f}",
             "drivers": _drivers(row),
-            "comparables": comps.get((row["player_id"], row["season_to"]), ""),
+            "comparables": b.comparables.get((row["player_id"], row["season_to"]), "") if comps else "",
+            "filter_team": "|".join(dict.fromkeys([str(row["team_from"]), str(row["team_to"])])),
+            "filter_role": "|".join(dict.fromkeys([row["role_from"], row["role_to"]])),
         })
     return rows
 
 
-def _strongest_first(moves):
-    return moves.sort_values("p_value", kind="stable") if len(moves) else moves
+def strongest_first(moves):
+    """Status order (changed, unsettled, shifted, steady), then strongest evidence first."""
+    if not len(moves):
+        return moves
+    order = moves["status"].map(STATUS_ORDER).fillna(9)
+    return moves.assign(_o=order).sort_values(["_o", "p_value"], kind="stable").drop(columns="_o")
 
 
-def build_moves(analysis, b) -> dict:
-    """The move tables and the distance-against-noise chart."""
+def capped(moves, b, *, limit=MAX_ROWS, csv="moves.csv", comps=True):
+    """(rows, note): at most ``limit`` rows, strongest first, and a sentence naming the CSV when cut."""
+    ordered = strongest_first(moves)
+    note = ""
+    if len(ordered) > limit:
+        note = (f"Showing the {limit:,} strongest of {len(ordered):,} rows; every row is in {csv}.")
+        ordered = ordered.head(limit)
+    return move_rows(ordered, b, comps=comps), note
+
+
+def build_method_moves(analysis, b) -> dict:
+    """The evidence chart (z against sample, with the real decision line) and the calibration note."""
     from markupsafe import Markup
 
     from .. import charts
 
-    config, model = analysis.config, analysis.model
-    consecutive = b.consecutive
-
-    def status(name):
-        sel = consecutive[consecutive["status"] == name] if len(consecutive) else consecutive
-        return move_rows(_strongest_first(sel), b.names, b.comparables)
-
-    a, slope = model.noise_calibration_
-    noise_note = (f"The noise model was calibrated on {int(len(consecutive))} returning player pairs: "
+    a, slope = analysis.model.noise_calibration_
+    noise_note = (f"The noise model was calibrated on {int(len(b.consecutive)):,} returning player pairs: "
                   f"its covariance is scaled by {a:.2f} + {slope:.2f} x (sample-size term at the pool median = 1), "
                   "so that the median returning player sits at the median of the no-change distribution.")
-    stints = analysis.stints
-    return {
-        "changed": status("changed"), "unsettled": status("unsettled"), "shifted": status("shifted"),
-        "stint_moves": move_rows(_strongest_first(stints), b.names) if len(stints) else [],
-        "requested": move_rows(_strongest_first(b.requested), b.names, b.comparables) if len(b.requested) else [],
-        "requested_label": f"{config.compare[0]} → {config.compare[1]}" if config.compare else "",
-        "moves_chart": Markup(charts.moves_chart(consecutive)),
-        "noise_note": noise_note, "alpha": config.alpha,
-    }
+    return {"moves_chart": Markup(charts.moves_chart(b.consecutive, alpha=b.alpha)),
+            "noise_note": noise_note, "alpha": b.alpha}

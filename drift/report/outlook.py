@@ -50,7 +50,7 @@ def build_outlook(analysis, b) -> dict:
     else:
         backtest_note = "No season has enough earlier returning players to be scored."
     return {
-        "outlook": outlook_rows(out, analysis.model),
+        "outlook": [{**r, "anchor": b.player_anchor.get(r["player_id"], "")} for r in outlook_rows(out, analysis.model)],
         "outlook_note": (
             f"For the {len(out)} players placed in {latest}: the chance of each role next season, learned "
             "from how often this data's returning players kept or changed role (by role, by how close "

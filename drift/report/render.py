@@ -9,10 +9,11 @@ __all__ = ["build_context", "template_environment", "render_report", "write_repo
 
 def _sections():
     """The section builders, in page order."""
-    from . import data, moves, outlook, roles
+    from . import data, front, moves, outlook, players, roles, teams
 
-    return (data.build_summary, roles.build_roles, moves.build_moves, data.build_drift,
-            outlook.build_outlook, roles.build_choice, data.build_features, data.build_data)
+    return (data.build_summary, front.build_front, players.build_players, players.build_search, teams.build_teams,
+            roles.build_roles, moves.build_method_moves, data.build_drift, outlook.build_outlook, roles.build_choice,
+            data.build_features, data.build_data)
 
 
 def build_context(analysis):
@@ -48,6 +49,7 @@ def template_environment():
                              undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=2: "" if v is None or v != v else f"{v:,.{d}f}"
     env.filters["pct"] = lambda v, d=0: "" if v is None or v != v else f"{100 * v:.{d}f}%"
+    env.filters["width"] = lambda v: f"{100 * v:.1f}%"
     env.filters["signed"] = lambda v, d=2: "" if v is None or v != v else f"{v:+.{d}f}"
     return env
 

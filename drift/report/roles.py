@@ -2,13 +2,30 @@
 
 from __future__ import annotations
 
-__all__ = ["build_roles", "build_choice"]
+__all__ = ["build_roles", "build_choice", "axis_label"]
 
 _COMPONENT_RULES = {
     "parallel": "Horn's parallel analysis: components whose eigenvalue beats the 95th "
                 "percentile of random data of the same shape",
     "elbow": "the elbow of the cumulative explained-variance curve",
 }
+
+
+def axis_label(model, i, n=2, short=False) -> str:
+    """Name component ``i`` by the features that load on it: "post-up share ← → spot-up share"."""
+    import numpy as np
+
+    from ..describe import feature_label
+
+    if model.components_.shape[0] <= i:
+        return ""
+    load = np.asarray(model.components_[i], float)
+    order = np.argsort(load, kind="stable")
+    low = [feature_label(model.features_[j]) for j in order[:n] if load[j] < 0]
+    high = [feature_label(model.features_[j]) for j in order[::-1][:n] if load[j] > 0]
+    if short:
+        return f"← {', '.join(low) or '—'} · {', '.join(high) or '—'} →"
+    return f"component {i + 1}: more {', '.join(low) or '—'} ← → more {', '.join(high) or '—'}"
 
 
 def build_roles(analysis, b) -> dict:
@@ -19,6 +36,7 @@ def build_roles(analysis, b) -> dict:
     from .. import charts
     from ..describe import feature_label
     from ..selection import STABLE_JACCARD
+    from .fmt import feature_value
 
     model = analysis.model
     noise = model.noise_
@@ -33,12 +51,15 @@ def build_roles(analysis, b) -> dict:
         roles.append({
             "id": rid, "name": model.role_names_[r], "description": model.role_descriptions_[r],
             "size": int(model.role_sizes_[r]), "stability": float(model.role_stability_[r]),
-            "unstable": bool(model.role_stability_[r] < STABLE_JACCARD), "colour": b.colours[rid],
-            "features": [{"label": feature_label(model.features_[j]), "value": float(cent[j]),
-                          "pool": float(mean[j]), "sd_diff": float(diff[j])} for j in top],
+            "unstable": bool(model.role_stability_[r] < STABLE_JACCARD), "colour": b.colours[rid], "css": b.role(rid)["css"],
+            "features": [{"label": feature_label(model.features_[j]),
+                          "value": feature_value(model.features_[j], cent[j]),
+                          "pool": feature_value(model.features_[j], mean[j]), "sd_diff": f"{diff[j]:+.1f}"}
+                         for j in top],
         })
+    labels = (axis_label(model, 0), axis_label(model, 1))
     return {"roles": roles,
-            "role_map": Markup(charts.role_map_chart(analysis.placements[b.pool_mask], model))}
+            "role_map": Markup(charts.role_map_chart(analysis.placements[b.pool_mask], model, labels=labels))}
 
 
 def _component_rule(model) -> str:

@@ -1,0 +1,86 @@
+"""Readable numbers and words for the report: percentages, significant digits, plain-word strength.
+
+Pure functions of plain values; the templates only print what these return.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title"]
+
+
+def _missing(v) -> bool:
+    return v is None or (isinstance(v, float) and math.isnan(v))
+
+
+def sig(v, digits=3) -> str:
+    """``v`` to ``digits`` significant digits, without scientific notation for ordinary sizes."""
+    if _missing(v):
+        return ""
+    v = float(v)
+    if v == 0:
+        return "0"
+    decimals = max(digits - 1 - int(math.floor(math.log10(abs(v)))), 0)
+    return f"{v:,.{decimals}f}"
+
+
+def percent(v, digits=2) -> str:
+    """A share or rate in [0, 1] as a percentage with ``digits`` significant digits (0.339 -> "34%")."""
+    if _missing(v):
+        return ""
+    return f"{sig(100 * float(v), digits)}%"
+
+
+def membership(p) -> str:
+    """A membership probability; above 99% it reads ">99%", never a flat "100%"."""
+    if _missing(p):
+        return ""
+    if p >= 0.99:
+        return ">99%"
+    if p < 0.01:
+        return "<1%"
+    return f"{100 * p:.0f}%"
+
+
+# z of the one-sided normal equivalent of the move's p-value; the status itself (p < alpha) decides
+# whether a move is beyond noise, the words only grade how far.
+_GRADES = ((6.0, "far beyond noise"), (3.5, "well beyond noise"), (0.0, "beyond noise"))
+
+
+def strength(p_value, z, alpha) -> str:
+    """The evidence of a move in plain words: "within noise" unless p < alpha, then graded by z."""
+    if _missing(p_value):
+        return ""
+    if p_value >= alpha:
+        # z 1.645 is p = 0.05: suggestive, not beyond the chosen level
+        return "near the noise limit" if (not _missing(z) and z >= 1.645) else "within noise"
+    return next(words for cut, words in _GRADES if z >= cut)
+
+
+def feature_value(name, v) -> str:
+    """A feature in its own units: shares and 0-1 shooting figures as %, rates as printed, ppp to 2 dp."""
+    if _missing(v):
+        return ""
+    if name.startswith("ppp_"):
+        return f"{v:.2f}"
+    if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
+        return percent(v, 3)
+    if name.endswith("_pct"):  # percentages already on a 0-100 scale
+        return f"{sig(v, 3)}%"
+    return sig(v, 3)
+
+
+_UNSAFE = re.compile(r"[^A-Za-z0-9_-]")
+
+
+def slug(prefix: str, key) -> str:
+    """A safe, unique HTML id for a player or team id (other characters hex-encoded)."""
+    return prefix + _UNSAFE.sub(lambda m: f".{ord(m.group()):x}", str(key))
+
+
+def figures_title(distance, noise, z, p_value) -> str:
+    """The figures behind a move's words, for hover text."""
+    return (f"distance {sig(distance, 3)} (noise alone: {sig(noise, 3)}), z {sig(z, 3)}, "
+            f"p {sig(p_value, 2)}")

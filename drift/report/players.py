@@ -1,0 +1,185 @@
+"""Player pages: one per paged player (see :func:`drift.report.context.paged_players`)."""
+
+from __future__ import annotations
+
+__all__ = ["build_players", "build_search", "PROFILE_ROWS"]
+
+#: Features on a player's profile: his role's most distinctive ones, then his own largest departures.
+PROFILE_ROWS = (5, 3)
+
+
+class _Profiles:
+    """Each role's pool members, sorted per feature, for averages and percentiles within the role."""
+
+    def __init__(self, model, values, roles, pool_mask):
+        import numpy as np
+
+        self.features = list(model.features_)
+        raw_sd = model.noise_["sd"].to_numpy(float)
+        self.sd = np.where(raw_sd > 0, raw_sd, 1.0)
+        mean = model.noise_["mean"].to_numpy(float)
+        self.sorted, self.mean, self.defining = {}, {}, {}
+        for r, rid in enumerate(model.role_ids_):
+            members = values[pool_mask & (roles == rid)]
+            members = members if len(members) else values[roles == rid]
+            self.sorted[rid] = np.sort(members, axis=0)
+            self.mean[rid] = np.nanmean(members, axis=0) if len(members) else np.full(len(self.features), np.nan)
+            diff = (np.asarray(model.centroids_features_[r]) - mean) / self.sd
+            self.defining[rid] = list(np.argsort(-np.abs(diff), kind="stable")[:PROFILE_ROWS[0]])
+
+    def rows(self, rid, x):
+        import numpy as np
+
+        from ..describe import feature_label
+        from .fmt import feature_value
+
+        own = np.argsort(-np.abs((x - self.mean[rid]) / self.sd), kind="stable")
+        chosen = self.defining[rid] + [j for j in own if j not in self.defining[rid]][:PROFILE_ROWS[1]]
+        ranked = self.sorted[rid]
+        out = []
+        for j in chosen:
+            col = ranked[:, j]
+            n = int(np.sum(~np.isnan(col)))
+            lo, hi = np.searchsorted(col[:n], x[j], "left"), np.searchsorted(col[:n], x[j], "right")
+            pct = 100.0 * (lo + hi) / 2 / n if n else float("nan")
+            name = self.features[j]
+            out.append({"label": feature_label(name), "value": feature_value(name, x[j]),
+                        "role_avg": feature_value(name, self.mean[rid][j]),
+                        "percentile": "" if pct != pct else f"{pct:.0f}", "bar": 0 if pct != pct else round(pct),
+                        "defining": bool(j in self.defining[rid])})
+        return out
+
+
+_OUTLOOK_SHOWN = ("season", "projected_role", "projected_prob", "stay_prob", "change_prob", "history_seasons")
+
+
+def _outlooks(outlook):
+    """Player id -> his outlook table (its main columns when present) for every player in ``outlook``."""
+    from .fmt import percent, sig
+
+    if outlook is None or not len(outlook) or "player_id" not in outlook:
+        return {}
+    shown = [c for c in _OUTLOOK_SHOWN if c in outlook] or [c for c in outlook if c not in ("player_id", "player")]
+    columns = [c.replace("_", " ") for c in shown]
+    out = {}
+    for pid, *rec in outlook[["player_id", *shown]].itertuples(index=False):
+        row = [percent(v, 2) if c.endswith("_prob") else sig(v, 3) if isinstance(v, float) else str(v)
+               for c, v in zip(shown, rec)]
+        out.setdefault(pid, {"columns": columns, "rows": []})["rows"].append(row)
+    return out
+
+
+def _comparables(comps, b, n=5):
+    """(player id, season) -> his ``n`` nearest reference player-seasons of other players."""
+    if comps is None or not len(comps):
+        return {}
+    out = {}
+    for r in comps[comps["rank"] <= n].to_dict(orient="records"):
+        out.setdefault((r["player_id"], r["season"]), []).append({
+            "player": r["comp_player"], "anchor": b.player_anchor.get(r["comp_player_id"], ""),
+            "season": r["comp_season"], "team": r["comp_team"],
+            "role": b.role(r["comp_role"])})
+    return out
+
+
+def _timeline(rows, into, b):
+    from .fmt import membership
+
+    out = []
+    for r in rows:
+        move = into.get((r["player_id"], r["season"]))
+        out.append({"season": r["season"], "team": str(r["team"]),
+                    "role": b.role(r["role"]),
+                    "membership": membership(r["role_prob"]), "second": r.get("second_role", ""),
+                    "games": int(r["games"]), "minutes": f"{r['minutes']:,.0f}",
+                    "outside": bool(r["out_of_reference"]),
+                    "status": move["status"] if move else "", "words": move["words"] if move else ""})
+    return out
+
+
+def build_players(analysis, b) -> dict:
+    """The player pages, the players' index and the shared role-map symbol."""
+    import numpy as np
+    import pandas as pd
+    from markupsafe import Markup
+
+    from . import sketch
+    from .roles import axis_label
+
+    model, pl = analysis.model, analysis.placements.reset_index(drop=True)
+    values = analysis.prepared.kept[list(model.features_)].to_numpy(float)
+    profiles = _Profiles(model, values, pl["role"].to_numpy(), b.pool_mask)
+    has_pc2 = "pc2" in pl
+    scores = np.column_stack([pl["pc1"], pl["pc2"] if has_pc2 else np.zeros(len(pl))])
+    cents = np.asarray(model.centroids_)[:, :2] if model.centroids_.shape[1] > 1 else np.column_stack(
+        [model.centroids_[:, 0], np.zeros(len(model.role_ids_))])
+    frame = sketch.map_frame(scores[b.pool_mask], cents, axis_label(model, 0, n=1, short=True),
+                             axis_label(model, 1, n=1, short=True) if has_pc2 else "")
+    all_moves = pd.concat([m for m in (analysis.moves, analysis.stints) if len(m)], ignore_index=True)
+    paged = pl[pl["player_id"].isin(b.player_anchor)]
+    moves = all_moves[all_moves["player_id"].isin(b.player_anchor)] if len(all_moves) else all_moves
+    rows_by, into = _group(moves, b)
+    outlooks = _outlooks(getattr(analysis, "outlook", None))
+    comps = _comparables(analysis.comparables, b)
+    cols = ["player_id", "player", "season", "team", "games", "minutes", "role", "role_prob", "out_of_reference"]
+    cols += ["second_role"] if "second_role" in pl else []
+    grouped = {}
+    ordered = paged.sort_values(["player", "player_id", "season"], kind="stable")
+    for pos, rec in zip(ordered.index, ordered[cols].to_dict(orient="records")):
+        grouped.setdefault(rec["player_id"], []).append((pos, rec))
+    pages, index = [], []
+    for pid, items in grouped.items():
+        pos = [p for p, _ in items]
+        rows = [r for _, r in items]
+        last = rows[-1]
+        player_moves = rows_by.get(pid, [])
+        role = b.role(last["role"])
+        pages.append({
+            "anchor": b.player_anchor[pid], "id": str(pid), "name": last["player"], "team": str(last["team"]),
+            "role": role, "timeline": _timeline(rows, into, b),
+            "path": Markup(sketch.player_path(frame, [r["season"] for r in rows], scores[pos, 0], scores[pos, 1],
+                                              [r["role"] for r in rows], last["player"])),
+            "profile_season": last["season"], "profile": profiles.rows(last["role"], values[pos[-1]]),
+            "moves": [m for m in player_moves if m["note"] != "mid-season trade"],
+            "trades": [m for m in player_moves if m["note"] == "mid-season trade"],
+            "comparables": comps.get((pid, last["season"]), []), "outlook": outlooks.get(pid),
+        })
+        latest_move = player_moves[-1] if player_moves else None
+        index.append({"anchor": b.player_anchor[pid], "player": last["player"], "season": last["season"],
+                      "team": str(last["team"]), "role": role, "seasons": len(rows),
+                      "status": latest_move["status"] if latest_move else "",
+                      "traded": any(m["traded"] for m in player_moves)})
+    return {"players": pages, "player_index": index,
+            "map_symbol": Markup(sketch.map_symbol(frame, cents, model.role_ids_, b.colours))}
+
+
+def _group(moves, b):
+    """(player id -> his formatted moves in season order, (player id, season) -> the move into it)."""
+    from .moves import move_rows
+
+    if not len(moves):
+        return {}, {}
+    ordered = moves.sort_values(["season_to", "kind"], kind="stable")
+    by_player, into = {}, {}
+    for raw, row in zip(ordered[["player_id", "season_to", "kind"]].itertuples(index=False),
+                        move_rows(ordered, b, comps=False)):
+        by_player.setdefault(raw.player_id, []).append(row)
+        if raw.kind == "consecutive":
+            into[(raw.player_id, raw.season_to)] = row
+    return by_player, into
+
+
+def build_search(analysis, b) -> dict:
+    """The search box's index: every paged player and every team, as JSON safe inside ``<script>``."""
+    import json
+
+    from markupsafe import Markup
+
+    pl = analysis.placements
+    last = pl[pl["player_id"].isin(b.player_anchor)].drop_duplicates("player_id", keep="last")
+    items = [[f"{r.player} · {r.team}", b.player_anchor[r.player_id], "player"]
+             for r in last[["player_id", "player", "team"]].itertuples(index=False)]
+    items += [[f"team {t}", anchor, "team"] for t, anchor in b.team_anchor.items()]
+    text = json.dumps(items, ensure_ascii=False)
+    # "<" is escaped so no name can close the script element; JSON reads \u003c back as "<"
+    return {"search_index": Markup(text.replace("<", "\\u003c").replace(">", "\\u003e").replace("&", "\\u0026"))}

@@ -1,0 +1,120 @@
+"""Team pages: minutes-weighted role mix by season, arrivals and departures, trades, role changes.
+
+A team-season counts the placed seasons of its players. A traded player's minutes go to each team
+by his qualifying stints (with each stint's own role); minutes of stints too short to place go to
+his other teams of that season with his season role, split evenly.
+"""
+
+from __future__ import annotations
+
+__all__ = ["build_teams", "team_minutes"]
+
+
+def team_minutes(placements, stint_moves):
+    """Long table: team, season, player_id, role, minutes (one row per player, team and role)."""
+    import pandas as pd
+
+    pl = placements[["player_id", "season", "team", "role", "minutes"]].copy()
+    pl["team"] = pl["team"].astype(str)
+    single = pl[~pl["team"].str.contains("/", regex=False)]
+    parts = [single]
+    traded = pl[pl["team"].str.contains("/", regex=False)]
+    if len(traded):
+        stints = pd.DataFrame()
+        if len(stint_moves):
+            a = stint_moves[["player_id", "season_from", "stint_from", "team_from", "role_from", "minutes_from"]]
+            z = stint_moves[["player_id", "season_from", "stint_to", "team_to", "role_to", "minutes_to"]]
+            cols = ["player_id", "season", "stint", "team", "role", "minutes"]
+            stints = pd.concat([a.set_axis(cols, axis=1), z.set_axis(cols, axis=1)]).drop_duplicates(
+                ["player_id", "season", "stint"])
+        by_season = {}
+        for rec in (stints.to_dict(orient="records") if len(stints) else []):
+            by_season.setdefault((rec["player_id"], rec["season"]), []).append(rec)
+        rows = []
+        for r in traded.itertuples(index=False):
+            known = [{"player_id": r.player_id, "season": r.season, "team": str(k["team"]), "role": k["role"],
+                      "minutes": float(k["minutes"])} for k in by_season.get((r.player_id, r.season), [])]
+            rest = [t for t in r.team.split("/") if t not in {k["team"] for k in known}]
+            left = max(float(r.minutes) - sum(k["minutes"] for k in known), 0.0)
+            rows += known + [{"player_id": r.player_id, "season": r.season, "team": t, "role": r.role,
+                              "minutes": left / len(rest)} for t in rest]
+        parts.append(pd.DataFrame(rows))
+    out = pd.concat(parts, ignore_index=True)
+    return out.groupby(["team", "season", "player_id", "role"], as_index=False, sort=True)["minutes"].sum()
+
+
+def _mix(block, b):
+    total = block["minutes"].sum()
+    by_role = block.groupby("role")["minutes"].sum()
+    return [{**b.role(rid), "share": float(by_role.get(rid, 0.0) / total),
+             "text": f"{100 * by_role.get(rid, 0.0) / total:.0f}%"} for rid in b.names if total > 0]
+
+
+def _movement(by_season, team, s0, s1, b, moves_by):
+    """Arrivals (team_first in s1, not his team at the end of s0) and departures, with roles."""
+    prev, now = by_season.get(s0, {}), by_season.get(s1, {})
+
+    def row(pid, r, where):
+        move = moves_by.get((pid, s0, s1))
+        return {"player": r["player"], "anchor": b.player_anchor.get(pid, ""), "other": where,
+                "role": b.role(r["role"]),
+                "status": move["status"] if move else "",
+                "words": move["words"] if move else ""}
+
+    arrivals = [row(pid, r, f"from {prev[pid]['team_last']}" if pid in prev else f"not placed in {s0}")
+                for pid, r in now.items()
+                if r["team_first"] == team and not (pid in prev and prev[pid]["team_last"] == team)]
+    departures = [row(pid, r, f"to {now[pid]['team_first']}" if pid in now else f"not placed in {s1}")
+                  for pid, r in prev.items()
+                  if r["team_last"] == team and not (pid in now and now[pid]["team_first"] == team)]
+    return arrivals, departures
+
+
+def build_teams(analysis, b) -> dict:
+    """The team pages and the teams' index."""
+    from .moves import move_rows, strongest_first
+
+    pl = analysis.placements.copy()
+    for col in ("team_first", "team_last"):
+        if col not in pl:
+            pl[col] = pl["team"].astype(str)
+    minutes = team_minutes(pl, analysis.stints)
+    by_season = {}
+    for rec in pl[["player_id", "player", "season", "role", "team_first", "team_last"]].astype(
+            {"team_first": str, "team_last": str}).to_dict(orient="records"):
+        by_season.setdefault(rec["season"], {})[rec["player_id"]] = rec
+    cons = b.consecutive
+    changed_all = cons[cons["status"] == "changed"] if len(cons) else cons
+    changed_teams = [set(f"{a}/{z}".split("/")) for a, z in zip(changed_all.get("team_from", []),
+                                                                 changed_all.get("team_to", []))]
+    mix_by = {t: block for t, block in minutes.groupby("team", sort=False)}
+    cons = b.consecutive
+    formatted = move_rows(cons, b, comps=False) if len(cons) else []
+    moves_by = {(r.player_id, r.season_from, r.season_to): f
+                for r, f in zip(cons[["player_id", "season_from", "season_to"]].itertuples(index=False), formatted)}
+    stints = analysis.stints
+    pages, index = [], []
+    for team, anchor in b.team_anchor.items():
+        mix = [{"season": s, "roles": _mix(block, b), "players": int(block["player_id"].nunique())}
+               for s, block in mix_by.get(team, minutes.iloc[0:0]).groupby("season", sort=True)]
+        seasons = [m["season"] for m in mix]
+        movement = []
+        for s0, s1 in zip(b.seasons[:-1], b.seasons[1:]):
+            if s0 in seasons or s1 in seasons:
+                arrivals, departures = _movement(by_season, team, s0, s1, b, moves_by)
+                movement.append({"pair": f"{s0} → {s1}", "arrivals": arrivals, "departures": departures})
+        movement.reverse()  # latest first
+        trades = stints[(stints["team_from"].astype(str) == team) | (stints["team_to"].astype(str) == team)] \
+            if len(stints) else stints
+        changed = changed_all[[team in ts for ts in changed_teams]] if len(changed_all) else changed_all
+        pages.append({
+            "anchor": anchor, "team": team, "mix": mix[::-1], "movement": movement,
+            "trades": move_rows(strongest_first(trades), b, comps=False) if len(trades) else [],
+            "changed": move_rows(changed.sort_values("season_to", ascending=False, kind="stable"), b, comps=False)
+            if len(changed) else [],
+        })
+        latest = mix[-1] if mix and mix[-1]["season"] == b.seasons[-1] else None
+        index.append({"anchor": anchor, "team": team, "players": latest["players"] if latest else 0,
+                      "changed": sum(1 for m in pages[-1]["changed"] if m["pair"].endswith(b.seasons[-1])),
+                      "arrivals": len(movement[0]["arrivals"]) if movement else 0})
+    return {"teams": pages, "team_index": index}
