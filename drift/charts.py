@@ -218,6 +218,9 @@ def moves_chart(moves, *, alpha=0.01) -> str:
     ax.annotate(f"beyond noise above this line (p < {alpha:g}, z > {line:.2f})", (0.01, line),
                 xycoords=("axes fraction", "data"), xytext=(0, 4), textcoords="offset points", fontsize=7)
     ax.set_yscale("symlog", linthresh=4)
+    top = float(shown["z"].max()) if len(shown) else 10.0
+    ticks = [t for t in (0, 2, 4, 10, 20, 50, 100, 200, 500) if t <= max(top, 4)]
+    ax.set_yticks(ticks, [str(t) for t in ticks])  # plain numbers: chart text is never parsed as math
     ax.set_xlabel("minutes in the smaller of the two seasons")
     ax.set_ylabel("evidence of a move (z)")
     if len(shown) < len(moves):

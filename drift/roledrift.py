@@ -9,12 +9,17 @@ reported in feature units beside the reference centroid.
 Each season centre carries its noise band: the standard error of a mean of that
 group (the group's spread / sqrt(size)). A change is *beyond noise* when it exceeds
 :data:`BAND_Z` standard errors; the threshold is two-sided 1% with a Bonferroni correction over
-the features of a role-season, since every feature of every role is looked at.
+the features of a role-season, since every feature of every role is looked at; and it is at
+least :data:`MIN_CHANGE_SD` pool SDs, so a wiggle too small to matter (or a rounding error on a
+feature with no spread) is never called a trend.
 """
 
 from __future__ import annotations
 
-__all__ = ["role_drift", "drift_headlines", "band_z"]
+__all__ = ["role_drift", "drift_headlines", "band_z", "MIN_CHANGE_SD"]
+
+#: Smallest change of a role centre, in pool SDs, worth calling drift (common practice, no source).
+MIN_CHANGE_SD = 0.1
 
 
 def band_z(n_features, alpha=0.01):
@@ -87,7 +92,8 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     out["change_from_first"] = out["value"] - first
     se = out.pop("change_se")
     out["change_se"] = se
-    out["beyond_noise"] = (out["change"].abs() > band_z(len(model.features_)) * se).fillna(False).astype(bool)
+    out["beyond_noise"] = ((out["change"].abs() > band_z(len(model.features_)) * se)
+                           & (out["change_sd"].abs() >= MIN_CHANGE_SD)).fillna(False).astype(bool)
     return out
 
 
@@ -120,7 +126,7 @@ def drift_headlines(drift, *, n_per_role=1):
     both["change_sd"] = both["change_sd_last"] - both["change_sd_first"]
     # first and last season centres are independent samples: their noise adds in quadrature
     band = band_z(drift["feature"].nunique()) * np.hypot(both["change_se_first"], both["change_se_last"])
-    both = both.assign(band=band)[both["change"].abs() > band]
+    both = both.assign(band=band)[(both["change"].abs() > band) & (both["change_sd"].abs() >= MIN_CHANGE_SD)]
     rows = []
     for _, group in both.groupby(level="role"):
         top = group.reindex(group["change_sd"].abs().sort_values(ascending=False).index).head(n_per_role)

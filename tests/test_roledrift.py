@@ -51,3 +51,15 @@ def test_every_season_and_role_is_reported(demo_model, demo_prepared):
     per = drift.groupby("season")["role"].nunique()
     assert (per == len(demo_model.role_ids_)).all()
     assert drift["match_cost"].max() < 0.5  # each season's groups sit close to the reference roles
+
+
+def test_no_drift_is_called_when_seasons_are_shuffled(demo_model, demo_prepared):
+    """Known truth: with season labels shuffled among rows, no role definition truly moves."""
+    rng = np.random.default_rng(5)
+    kept = demo_prepared.kept.copy()
+    kept["season"] = rng.permutation(kept["season"].to_numpy())
+    drift = role_drift(demo_model, kept)
+    share = drift["beyond_noise"].mean()
+    print(f"share of role-season-feature centres called beyond noise with shuffled seasons: {share:.4f}")
+    assert share < 0.01
+    assert len(drift_headlines(drift)) <= 1
