@@ -246,7 +246,7 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 def check(data, config: Config | None = None):
     """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.datacheck.DataCheck`."""
     from .datacheck import check_data
-    return check_data(lambda: prepare(data, config), config or Config(), check_seasons)
+    return check_data(lambda: prepare(data, config), config or Config(), check_settings)
 
 
 def _as_list(data):
