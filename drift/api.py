@@ -230,7 +230,7 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
     tables = [("placements.csv", analysis.placements), ("moves.csv", analysis.moves),
               ("excluded.csv", analysis.prepared.excluded), ("stints.csv", analysis.stints),
               ("role_drift.csv", analysis.role_drift), ("comparables.csv", analysis.comparables),
-              ("features.csv", analysis.model.noise_.reset_index())]
+              ("features.csv", analysis.prepared.reading.feature_table(analysis.model.noise_))]
     if analysis.alignment is not None:
         tables.append(("alignment.csv", analysis.alignment.table))
     if analysis.outlook is not None:

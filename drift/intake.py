@@ -43,6 +43,18 @@ class IntakeReading:
     units: dict
     sources: object
 
+    def summary(self):
+        """One row per export column and reading (:func:`drift.intake_report.column_summary`)."""
+        from .intake_report import column_summary
+
+        return column_summary(self.columns)
+
+    def feature_table(self, noise):
+        """``features.csv``: the model's per-feature noise table with how each feature was read."""
+        from .intake_report import feature_table
+
+        return feature_table(noise, self.columns)
+
 
 @dataclass(frozen=True)
 class RawSeasons:

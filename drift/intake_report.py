@@ -9,7 +9,7 @@ one per kind of note with the files it concerns.
 
 from __future__ import annotations
 
-__all__ = ["column_table", "column_summary", "emit_notes"]
+__all__ = ["column_table", "column_summary", "feature_table", "emit_notes"]
 
 _UNIT_OF = {"share": "fraction", "efficiency": "points per possession", "possessions": "possessions"}
 
@@ -43,6 +43,26 @@ def column_summary(columns):
     out = columns.groupby(keys, sort=False, dropna=False).size().reset_index(name="files")
     order = {"standard": 0, "feature": 1, "sample": 2, "ignored": 3}
     return out.sort_values("role", key=lambda s: s.map(order), kind="stable").reset_index(drop=True)
+
+
+def feature_table(noise, columns):
+    """The noise table (index: feature) with ``play_type, unit, source_column, detected_by`` after ``family``.
+
+    A feature read from differently named columns in different files lists each name, joined by ``|``.
+    """
+    table = noise.reset_index()
+    feats = columns[columns["role"] == "feature"] if columns is not None else None
+    if feats is None or len(feats) == 0:
+        return table
+    joined = feats.groupby("drift_name", sort=False).agg(
+        play_type=("play_type", "first"), unit=("unit", "first"),
+        source_column=("column", lambda c: "|".join(dict.fromkeys(c))),
+        detected_by=("how", lambda h: "|".join(dict.fromkeys(h))))
+    joined = joined.reindex(table["feature"]).fillna("").reset_index(drop=True)
+    at = list(table.columns).index("family") + 1 if "family" in table.columns else 1
+    for offset, name in enumerate(joined.columns):
+        table.insert(at + offset, name, joined[name].to_numpy())
+    return table
 
 
 def emit_notes(notes, columns):

@@ -200,3 +200,9 @@ def test_membership_and_strength_words():
     assert strength(0.001, 3.1, 0.01) == "beyond noise"
     assert strength(1e-6, 4.8, 0.01) == "well beyond noise"
     assert strength(1e-12, 7.0, 0.01) == "far beyond noise"
+
+
+def test_data_section_says_how_each_column_was_read(page):
+    assert "How the columns were read" in page.body
+    assert "share_isolation share isolation fraction 6 name pattern 'share_<type>'" in page.body
+    assert "usage_pct rate percent 6" in page.body

@@ -218,6 +218,12 @@ class ReportContext:
     missing : list of dict
         Per feature with missing values: feature, family, missing (count), action.
     ignored_columns, files : list of str
+    columns_read : list of dict
+        How each export column was read (``Prepared.reading.summary()``): column,
+        read_as (drift's name, or "ignored"/"sample"), family, play_type, unit,
+        files (in how many it was read so), why (the rule used, or why it was left out).
+    intake_notes : list of str
+        Every unit conversion and intake warning, one line each.
     out_of_reference : list of dict
         The 25 seasons farthest outside every role (player, anchor, season, team, role, distance).
     out_of_reference_total : int
@@ -268,6 +274,8 @@ class ReportContext:
     excluded_summary: list
     missing: list
     ignored_columns: list
+    columns_read: list
+    intake_notes: list
     files: list
     out_of_reference: list
     out_of_reference_total: int

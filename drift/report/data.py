@@ -100,7 +100,13 @@ def build_data(analysis, b) -> dict:
     out_of_reference = [{"player": r["player"], "anchor": b.player_anchor.get(r["player_id"], ""),
                          "season": r["season"], "team": r["team"], "role": r["role"],
                          "distance": f"{r['distance']:.2f}"} for r in oor.head(25).to_dict(orient="records")]
+    reading = prepared.reading
+    columns_read = [] if reading is None else [
+        {"column": r["column"], "read_as": r["drift_name"] or r["role"], "family": r["family"],
+         "play_type": r["play_type"], "unit": r["unit"], "files": int(r["files"]), "why": r["note"] or r["how"]}
+        for r in reading.summary().to_dict(orient="records")]
     return {"excluded_summary": excl, "missing": missing.to_dict(orient="records"),
-            "ignored_columns": list(prepared.ignored_columns),
+            "ignored_columns": list(prepared.ignored_columns), "columns_read": columns_read,
+            "intake_notes": list(reading.notes) if reading is not None else [],
             "files": [str(f) for f in prepared.files], "out_of_reference": out_of_reference,
             "out_of_reference_total": int(len(oor))}
