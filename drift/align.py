@@ -17,25 +17,7 @@ from dataclasses import dataclass
 
 from .errors import ModelFileError
 
-__all__ = ["match_centroids", "align_models", "Alignment", "relabel"]
-
-
-def match_centroids(cost):
-    """Least-cost one-to-one matching of rows to columns.
-
-    Parameters
-    ----------
-    cost : array of shape (m, n)
-
-    Returns
-    -------
-    rows, cols : int arrays of length min(m, n)
-    """
-    import numpy as np
-    from scipy.optimize import linear_sum_assignment
-
-    rows, cols = linear_sum_assignment(np.asarray(cost, float))
-    return rows, cols
+__all__ = ["align_models", "Alignment", "relabel"]
 
 
 @dataclass(frozen=True)
@@ -70,6 +52,7 @@ def align_models(previous, new, *, threshold=None) -> Alignment:
     """
     import numpy as np
     import pandas as pd
+    from scipy.optimize import linear_sum_assignment
     from scipy.spatial.distance import cdist
 
     from .constants import role_id, role_number
@@ -86,7 +69,7 @@ def align_models(previous, new, *, threshold=None) -> Alignment:
         own = cdist(a, a) / np.sqrt(len(shared))
         np.fill_diagonal(own, np.inf)
         threshold = 0.5 * float(np.median(own.min(axis=1))) if len(a) > 1 else np.inf
-    rows, cols = match_centroids(cost)
+    rows, cols = linear_sum_assignment(cost)
     records, ids = [], {}
     matched_prev, matched_new = set(), set()
     for r, c in zip(rows, cols):

@@ -7,39 +7,19 @@ outputs; ``place_files`` places seasons with a saved model.
 
 from __future__ import annotations
 
-import dataclasses
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from .config import Config
 from .errors import InputError
+from .placing import check_files, place_files
 from .preflight import check_settings
+from .preparing import Prepared, _as_list, prepare, reference_pool
 from .progress import stages
 from .threads import thread_limited
 
 __all__ = ["check", "Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
            "write_outputs"]
-
-
-@dataclass(frozen=True)
-class Prepared:
-    """Intake and filters done.
-
-    ``seasons``: every combined player-season; ``kept``: those passing the filters;
-    ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
-    players; ``missing``: per-feature counts of missing values and what was done;
-    ``reading``: how each column was read, units, conversions (:class:`~drift.intake.IntakeReading`).
-    """
-
-    seasons: object
-    kept: object
-    excluded: object
-    stints: object
-    features: tuple
-    missing: object
-    files: tuple
-    ignored_columns: tuple
-    reading: object = None
 
 
 @dataclass(frozen=True)
@@ -60,87 +40,6 @@ class Analysis:
     outlook: object = None
     #: drift.outlook.Backtest (per-season scores and calibration table), or None
     backtest: object = None
-
-
-def _missing_table(seasons, spec, filled):
-    import pandas as pd
-
-    rows = []
-    for name, fam in zip(spec.names, spec.families):
-        n = int(filled.get(name, 0)) if fam == "share" else int(seasons[name].isna().sum())
-        if fam == "share":
-            action = "play type not used: share set to 0"
-        elif fam == "efficiency":
-            action = "no possessions of this play type: pool mean (no sample to shrink)"
-        else:
-            action = "missing: pool mean"
-        rows.append({"feature": name, "family": fam, "missing": n, "action": action})
-    return pd.DataFrame(rows)
-
-
-def prepare(data, config: Config | None = None, *, progress=None) -> Prepared:
-    """Read season files, combine stints, fill unused shares and apply the filters.
-
-    Parameters
-    ----------
-    data : path or list of paths
-    config : Config, optional
-
-    Returns
-    -------
-    Prepared
-    """
-    from .combine import combine_stints
-    from .features import apply_filters, feature_spec, fill_unused_shares
-    from .intake import read_seasons
-
-    config = config or Config()
-    st = stages(progress)
-    with st.stage("read"):
-        raw = read_seasons(data, config)
-    spec = feature_spec(raw.features)
-    with st.stage("combine stints", len(raw.table)):
-        seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
-        seasons, filled = fill_unused_shares(seasons, spec)
-    missing = _missing_table(seasons, spec, filled)
-    filled_with_mean = missing[(missing["family"].isin(["rate", "shooting"])) & (missing["missing"] > 0)]
-    if len(filled_with_mean):
-        import warnings
-
-        from .errors import DataQualityWarning
-
-        listed = ", ".join(f"{f} ({n})" for f, n in zip(filled_with_mean["feature"], filled_with_mean["missing"]))
-        warnings.warn(f"missing values set to the pool mean: {listed}; check the export if these should "
-                      "have values", DataQualityWarning, stacklevel=2)
-    kept, excluded = apply_filters(seasons, min_games=config.min_games,
-                                   min_minutes_per_game=config.min_minutes_per_game)
-    stints, _ = fill_unused_shares(stints, spec)
-    stints, _ = apply_filters(stints, min_games=config.min_stint_games,
-                              min_minutes_per_game=config.min_minutes_per_game)
-    if kept.empty:
-        raise InputError(
-            f"no player-season passes the filters (min_games={config.min_games}, "
-            f"min_minutes_per_game={config.min_minutes_per_game}); lower them with "
-            "--min-games / --min-minutes", file=raw.files[0])
-    for frame in (kept, seasons, stints):
-        frame.attrs["features"] = raw.features
-    return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
-                    features=raw.features, missing=missing, files=raw.files,
-                    ignored_columns=raw.ignored_columns, reading=raw.reading)
-
-
-def reference_pool(prepared: Prepared, reference=None):
-    """The qualifying rows of the reference seasons (all seasons when ``reference`` is None)."""
-    kept = prepared.kept
-    if not reference:
-        return kept
-    available = sorted(kept["season"].unique())
-    unknown = [s for s in reference if s not in available]
-    if unknown:
-        raise InputError(f"reference season(s) {unknown} are not in the data; available: {available}")
-    pool = kept[kept["season"].isin(reference)].reset_index(drop=True)
-    pool.attrs["features"] = prepared.features
-    return pool
 
 
 @thread_limited(fitting=True)
@@ -166,7 +65,8 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     import pandas as pd
 
     from .comparables import run_comparables
-    from .moves import consecutive_season_pairs, pair_moves, requested_pairs, stint_pairs
+    from .moves import pair_moves, requested_pairs, stint_pairs
+    from .noise import consecutive_pairs
     from .outlook import season_outlook
     from .roledrift import role_drift
 
@@ -178,7 +78,7 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
         for extra in ("team_first", "team_last", "n_stints"):
             if extra in kept.columns:
                 placements[extra] = kept[extra].to_numpy()
-    i1, i2 = consecutive_season_pairs(kept)
+    i1, i2 = consecutive_pairs(kept)
     with st.stage("moves", len(i1)):
         kept_processed = model.processed(kept)  # shared by every season-pair measurement below
         moves = [pair_moves(model, kept, placements, i1, i2, alpha=config.alpha, kind="consecutive",
@@ -249,10 +149,6 @@ def check(data, config: Config | None = None):
     return check_data(lambda: prepare(data, config), config or Config(), check_settings)
 
 
-def _as_list(data):
-    return [data] if isinstance(data, (str, Path)) else list(data)
-
-
 @thread_limited(fitting=True)
 def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         progress=None) -> Analysis:
@@ -304,132 +200,4 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         write_outputs(analysis, tmp, progress=st)
     return analysis
 
-
-def _model_config(model, config):
-    """``config`` with the model's own intake rules (filters, total marker) as saved in it.
-
-    The caller's reading rules (columns, features, sheet, ...) are kept: they describe the new files.
-    """
-    config = config or Config()
-    saved = model.intake_
-    intake = dataclasses.replace(config.intake, min_games=saved.min_games,
-                                 min_minutes_per_game=saved.min_minutes_per_game,
-                                 min_stint_games=saved.min_stint_games, total_marker=saved.total_marker)
-    return config.replace(intake=intake)
-
-
-@thread_limited(fitting=False)
-def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
-                min_minutes_per_game=None, inputs=(), progress=None):
-    """Place season files with a saved model and write one CSV.
-
-    The model's features must all be present, and no others. The filters are
-    the model's own (saved at fit time) unless ``min_games`` or
-    ``min_minutes_per_game`` are given (a partial season wants fewer games);
-    ``config`` supplies the column mapping.
-
-    ``progress`` receives stage events as in :func:`run`.
-
-    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``. Neither
-    may be an input (model, data, ``inputs``) nor lie in an input folder, and an existing
-    file is replaced only if drift wrote it (checked before any work).
-
-    Returns
-    -------
-    DataFrame
-        The placements written; ``.attrs["excluded"]`` holds the excluded rows.
-    """
-    from .model import RoleModel
-    from .outputs import atomic_file, check_output_file
-    from .safecsv import write_csv
-
-    st = stages(progress)
-    out = Path(out)
-    excluded_path = out.with_name(f"{out.stem}_excluded.csv")
-    guarded = [model_path, *_as_list(files), *inputs]
-    check_output_file(out, inputs=guarded)
-    check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
-    model = RoleModel.load(model_path)
-    config = _model_config(model, config).replace(min_games=min_games,
-                                                  min_minutes_per_game=min_minutes_per_game)
-    prepared = prepare(files, config, progress=st)
-    model.check_features(prepared.features)
-    with st.stage("place", len(prepared.kept)):
-        placements = model.place(prepared.kept)
-    with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
-        write_csv(placements, tmp)
-    if len(prepared.excluded):
-        with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
-                         what="the excluded list") as tmp:
-            write_csv(prepared.excluded, tmp)
-    placements.attrs["excluded"] = prepared.excluded
-    return placements
-
-
-#: games a partial season needs to be checked (fewer say nothing; "too early" covers the rest)
-INSEASON_MIN_GAMES = 5
-
-
-#: every file the in-season check may write into its output folder (besides the marker)
-INSEASON_FILES = ("inseason.csv", "inseason_excluded.csv", "inseason.html")
-
-
-def check_files(model_path, partial, against, out, config: Config | None = None, *, min_games=None,
-                min_minutes_per_game=None, alpha=None, season_games=82, inputs=()):
-    """The in-season check: partial-season files against full seasons, written to a folder.
-
-    Parameters
-    ----------
-    model_path : path
-        A ``model.json``.
-    partial, against : path or list of paths
-        The season under way, and earlier full seasons (files or folders).
-    out : path
-        Folder for ``inseason.csv``, ``inseason.html`` and ``inseason_excluded.csv``.
-    min_games, min_minutes_per_game : optional
-        Filters of the partial season (default 5 games and the model's minutes per game);
-        the full seasons use the model's filters.
-    alpha : float, optional
-        Level for "beyond noise" (default ``config.alpha``).
-    season_games : int
-        Games in a full season (horizon of ``games_to_conclusive``).
-    inputs : paths, optional
-        Other files the output must not touch (the CLI passes the config file).
-
-    Returns
-    -------
-    DataFrame
-        The checks (see README, "In-season check"); ``.attrs["excluded"]`` the rows not checked.
-    """
-    import pandas as pd
-
-    from .inseason import check_partial
-    from .inseason_page import write_page
-    from .model import RoleModel
-    from .outputs import atomic_folder, check_output_folder
-    from .safecsv import write_csv
-
-    guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
-    check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
-    model = RoleModel.load(model_path)
-    base = _model_config(model, config)
-    part_config = base.replace(
-        min_games=min_games if min_games is not None else INSEASON_MIN_GAMES,
-        min_minutes_per_game=min_minutes_per_game)
-    part = prepare(partial, part_config)
-    full = prepare(against, base)
-    for prepared in (part, full):
-        model.check_features(prepared.features)
-    alpha = alpha if alpha is not None else base.alpha
-    checks, unmatched = check_partial(model, part.kept, full.kept, alpha=alpha, season_games=season_games)
-    excluded = pd.concat([part.excluded, unmatched.assign(reason="no earlier qualifying season in the "
-                                                                 "--against data")[
-        [c for c in part.excluded.columns if c in unmatched.columns] + ["reason"]]], ignore_index=True)
-    with atomic_folder(out, inputs=guarded) as tmp:
-        write_csv(checks, tmp / "inseason.csv")
-        write_csv(excluded, tmp / "inseason_excluded.csv")
-        write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,
-                   n_excluded=len(excluded))
-    checks.attrs["excluded"] = excluded
-    return checks
 

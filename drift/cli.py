@@ -194,7 +194,7 @@ def _check(args):
 
     checks = check_files(args.model, args.files, args.against, args.out, _config(args),
                          min_games=args.min_games, min_minutes_per_game=args.min_minutes, alpha=args.alpha,
-                         season_games=args.season_games, inputs=[args.config] if args.config else ())
+                         season_games=args.season_games, inputs=[args.config] if args.config else ()).checks
     counts = checks["status"].value_counts()
     shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
     return (f"drift: checked {len(checks)} players against their last season ({shown or 'none beyond noise'}); "
@@ -219,18 +219,13 @@ def _place(args):
     if args.against:
         return _check(args)
 
-    placements = place_files(args.model, args.files, args.out, _config(args),
-                             min_games=args.min_games, min_minutes_per_game=args.min_minutes,
-                             inputs=[args.config] if args.config else (), progress=_progress(args))
-    excluded = placements.attrs.get("excluded")
+    placed = place_files(args.model, args.files, args.out, _config(args),
+                         min_games=args.min_games, min_minutes_per_game=args.min_minutes,
+                         inputs=[args.config] if args.config else (), progress=_progress(args))
     note = ""
-    if excluded is not None and len(excluded):
-        from pathlib import Path
-
-        out = Path(args.out)
-        note = (f"; {len(excluded)} excluded by the filters, listed in "
-                f"{out.with_name(out.stem + '_excluded.csv')}")
-    return f"drift: placed {len(placements)} player-seasons; wrote {args.out}{note}"
+    if len(placed.excluded):
+        note = f"; {len(placed.excluded)} excluded by the filters, listed in {placed.excluded_path}"
+    return f"drift: placed {len(placed.placements)} player-seasons; wrote {args.out}{note}"
 
 
 def _demo(args):

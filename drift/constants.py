@@ -9,7 +9,7 @@ from __future__ import annotations
 
 __all__ = ["STABLE_JACCARD", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES",
            "COMPONENT_RULES", "role_id", "role_number", "INTAKE_RULES_TEXT", "MISSING_ACTIONS",
-           "FILTER_REASONS"]
+           "FILTER_REASONS", "reason_text"]
 
 #: a role reproduces on resamples when its mean bootstrap Jaccard overlap reaches this
 #: (common practice, no source: Hennig's 0.6 "pattern, not noise" reading of stability)
@@ -52,8 +52,15 @@ MISSING_ACTIONS = {
     "shooting": "missing: pool mean",
 }
 
-#: filter reason code -> short wording for summaries (excluded.csv keeps the exact numbers)
+#: filter reason code -> short wording for summaries (excluded.csv's ``reason`` keeps the numbers);
+#: a row failing several filters has the codes joined by "+"
 FILTER_REASONS = {
-    "few_games": "fewer games than min_games",
-    "few_minutes": "fewer minutes per game than min_minutes_per_game",
+    "few_games": "too few games",
+    "few_minutes": "too few minutes per game",
+    "no_earlier_season": "no earlier qualifying season in the --against data",
 }
+
+
+def reason_text(code: str) -> str:
+    """Short wording of a (possibly "+"-joined) filter reason code, e.g. for the report's summary."""
+    return " and ".join(FILTER_REASONS.get(c, c) for c in str(code).split("+"))

@@ -110,7 +110,9 @@ def apply_filters(seasons, *, min_games: float, min_minutes_per_game: float):
     -------
     kept : DataFrame
     excluded : DataFrame
-        The excluded rows' identity, games, minutes and a ``reason``.
+        The excluded rows' identity, games, minutes, a ``reason`` (with the numbers) and a
+        ``reason_code`` (``few_games``, ``few_minutes`` or both joined by "+"; wording in
+        :data:`drift.constants.FILTER_REASONS`).
     """
     import numpy as np
 
@@ -125,10 +127,13 @@ def apply_filters(seasons, *, min_games: float, min_minutes_per_game: float):
         why = f"minutes per game {mpg[i]:.1f} < min_minutes_per_game {min_minutes_per_game:g}"
         reasons[i] = f"{reasons[i]}; {why}" if reasons[i] else why
     bad = reasons != ""
+    codes = np.where(few_games & few_minutes, "few_games+few_minutes",
+                     np.where(few_games, "few_games", "few_minutes"))
     cols = [c for c in ("player_id", "player", "season", "team", "games", "minutes") if c in seasons]
     excluded = seasons.loc[bad, cols].copy()
     excluded["minutes_per_game"] = np.round(mpg[bad], 2)
     excluded["reason"] = reasons[bad]
+    excluded["reason_code"] = codes[bad]
     return seasons.loc[~bad].reset_index(drop=True), excluded.reset_index(drop=True)
 
 

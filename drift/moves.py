@@ -17,17 +17,10 @@ For a pair of placements (two seasons, or the stints either side of a trade):
 
 from __future__ import annotations
 
-__all__ = ["pair_moves", "consecutive_season_pairs", "requested_pairs", "stint_pairs",
+__all__ = ["pair_moves", "requested_pairs", "stint_pairs",
            "MOVE_STATUSES"]
 
 MOVE_STATUSES = ("changed", "unsettled", "shifted", "steady")
-
-
-def consecutive_season_pairs(seasons):
-    """Row positions of each player's consecutive qualifying seasons (gaps allowed)."""
-    from .noise import consecutive_pairs
-
-    return consecutive_pairs(seasons)
 
 
 def requested_pairs(seasons, season_a: str, season_b: str):
@@ -77,7 +70,6 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     DataFrame, one row per pair (columns in README, "moves.csv").
     """
     import numpy as np
-    import pandas as pd
     from scipy.stats import chi2, norm
 
     table = table.reset_index(drop=True)

@@ -49,10 +49,10 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     """
     import numpy as np
     import pandas as pd
+    from scipy.optimize import linear_sum_assignment
     from scipy.spatial.distance import cdist
     from sklearn.cluster import KMeans
 
-    from .align import match_centroids
     from .constants import KMEANS_RESTARTS
     from .features import safe_scale
 
@@ -73,7 +73,7 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
         se = np.vstack([g.std(axis=0, ddof=1) / np.sqrt(len(g)) if len(g) > 1 else np.full(g.shape[1], np.nan)
                         for g in groups])
         cost = cdist(ref, (cent - model.scaler_mean_) / model.scaler_scale_) / np.sqrt(ref.shape[1])
-        rows, cols = match_centroids(cost)
+        rows, cols = linear_sum_assignment(cost)
         sizes = np.bincount(km.labels_, minlength=k)
         for r, c in zip(rows, cols):
             for j, feat in enumerate(model.features_):

@@ -34,7 +34,7 @@ __all__ = [
     "gap_statistic", "gap_pick", "bootstrap_stability", "choose_roles", "STABLE_JACCARD",
 ]
 
-STABLE_JACCARD = 0.6
+from .constants import KMEANS_RESTARTS, STABLE_JACCARD  # noqa: E402  (re-exported for callers)
 
 
 def eigenvalues(z):
@@ -220,7 +220,7 @@ class RoleChoice:
     kmeans: object
 
 
-def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 10,
+def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = KMEANS_RESTARTS,
                  n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000) -> RoleChoice:
     """Pick the number of roles (``rule`` = "auto") or take a fixed one (an int).
 

@@ -6,7 +6,8 @@ import numpy as np
 import pytest
 from sklearn.metrics import roc_auc_score
 
-from drift.moves import consecutive_season_pairs, pair_moves, requested_pairs
+from drift.moves import pair_moves, requested_pairs
+from drift.noise import consecutive_pairs
 
 
 def _with_truth(moves, truth):
@@ -113,7 +114,7 @@ def test_stint_moves_before_and_after_trade(demo_analysis, demo_truth):
 
 def test_consecutive_pairs_allow_gaps(demo_prepared):
     kept = demo_prepared.kept
-    i, j = consecutive_season_pairs(kept)
+    i, j = consecutive_pairs(kept)
     assert (kept["player_id"].to_numpy()[i] == kept["player_id"].to_numpy()[j]).all()
     assert (kept["season"].to_numpy()[i] < kept["season"].to_numpy()[j]).all()
 

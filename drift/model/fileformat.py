@@ -186,7 +186,7 @@ class FileMethods:
         return to_dict(self)
 
     @classmethod
-    def from_dict(cls, data: dict, *, source="model") -> "RoleModel":
+    def from_dict(cls, data: dict, *, source="model"):
         """Rebuild a fitted model from :meth:`to_dict` output, validating every field first."""
         return from_dict(cls, data, source=source)
 
@@ -196,7 +196,7 @@ class FileMethods:
         save(self, path)
 
     @classmethod
-    def load(cls, path) -> "RoleModel":
+    def load(cls, path):
         """Read a model written by :meth:`save`."""
         return load(cls, path)
 

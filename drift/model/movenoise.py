@@ -65,8 +65,6 @@ class MoveNull:
         noise : DataFrame indexed by feature with ``tau2`` and ``drift_var``.
         calibration : MoveCalibration
         """
-        import numpy as np
-
         b1, b2 = noise_from.factor, noise_to.factor
         tau2 = noise["tau2"].to_numpy(float)
         drift = noise["drift_var"].to_numpy(float)

@@ -80,20 +80,13 @@ def build_features(analysis, b) -> dict:
             "reliability_chart": Markup(charts.reliability_chart(noise, model.weights_))}
 
 
-def _reason_kind(reason: str) -> str:
-    kinds = []
-    if "games " in reason:
-        kinds.append("too few games")
-    if "minutes per game" in reason:
-        kinds.append("too few minutes per game")
-    return " and ".join(kinds) or reason
-
-
 def build_data(analysis, b) -> dict:
     """Exclusions by reason, missing values, seasons outside the reference, files read."""
+    from ..constants import reason_text
+
     prepared, placements = analysis.prepared, analysis.placements
     excluded = prepared.excluded
-    excl = (excluded["reason"].map(_reason_kind).value_counts().rename_axis("reason")
+    excl = (excluded["reason_code"].map(reason_text).value_counts().rename_axis("reason")
             .reset_index(name="count").to_dict(orient="records")) if len(excluded) else []
     missing = prepared.missing[prepared.missing["missing"] > 0]
     oor = placements[placements["out_of_reference"]].sort_values("distance", ascending=False)

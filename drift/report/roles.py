@@ -39,14 +39,11 @@ def build_roles(analysis, b) -> dict:
     from .fmt import feature_value
 
     model = analysis.model
-    noise = model.noise_
-    mean = noise["mean"].to_numpy(float)
-    raw_sd = noise["sd"].to_numpy(float)
-    sd = np.where(raw_sd > 0, raw_sd, 1.0)
+    mean = model.noise_["mean"].to_numpy(float)
     roles = []
     for r, rid in enumerate(model.role_ids_):
         cent = np.asarray(model.centroids_features_[r])
-        diff = (cent - mean) / sd
+        diff = model.in_pool_sd(cent)
         top = np.argsort(-np.abs(diff), kind="stable")[:6]
         roles.append({
             "id": rid, "name": model.role_names_[r], "description": model.role_descriptions_[r],

@@ -1,0 +1,161 @@
+"""Placing new files with a saved model: ``drift place`` and the in-season check."""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+from pathlib import Path
+
+from .config import Config
+from .preparing import _as_list, prepare
+from .progress import stages
+from .threads import thread_limited
+
+__all__ = ["place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAMES", "INSEASON_FILES"]
+
+
+@dataclass(frozen=True)
+class Placed:
+    """What :func:`place_files` wrote: ``placements`` to ``path``; ``excluded`` (the rows the
+    filters left out, with ``reason`` and ``reason_code``) to ``excluded_path`` when there are any."""
+
+    placements: object
+    excluded: object
+    path: Path
+    excluded_path: Path
+
+
+@dataclass(frozen=True)
+class Checked:
+    """What :func:`check_files` found: ``checks`` (one row per checked player) and ``excluded``
+    (partial rows not checked, with ``reason`` and ``reason_code``)."""
+
+    checks: object
+    excluded: object
+
+
+def _model_config(model, config):
+    """``config`` with the model's own intake rules (filters, total marker) as saved in it.
+
+    The caller's reading rules (columns, features, sheet, ...) are kept: they describe the new files.
+    """
+    config = config or Config()
+    saved = model.intake_
+    intake = dataclasses.replace(config.intake, min_games=saved.min_games,
+                                 min_minutes_per_game=saved.min_minutes_per_game,
+                                 min_stint_games=saved.min_stint_games, total_marker=saved.total_marker)
+    return config.replace(intake=intake)
+
+
+@thread_limited(fitting=False)
+def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
+                min_minutes_per_game=None, inputs=(), progress=None):
+    """Place season files with a saved model and write one CSV.
+
+    The model's features must all be present, and no others. The filters are
+    the model's own (saved at fit time) unless ``min_games`` or
+    ``min_minutes_per_game`` are given (a partial season wants fewer games);
+    ``config`` supplies the column mapping.
+
+    ``progress`` receives stage events as in :func:`run`.
+
+    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``. Neither
+    may be an input (model, data, ``inputs``) nor lie in an input folder, and an existing
+    file is replaced only if drift wrote it (checked before any work).
+
+    Returns
+    -------
+    Placed
+    """
+    from .model import RoleModel
+    from .outputs import atomic_file, check_output_file
+    from .safecsv import write_csv
+
+    st = stages(progress)
+    out = Path(out)
+    excluded_path = out.with_name(f"{out.stem}_excluded.csv")
+    guarded = [model_path, *_as_list(files), *inputs]
+    check_output_file(out, inputs=guarded)
+    check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
+    model = RoleModel.load(model_path)
+    config = _model_config(model, config).replace(min_games=min_games,
+                                                  min_minutes_per_game=min_minutes_per_game)
+    prepared = prepare(files, config, progress=st)
+    model.check_features(prepared.features)
+    with st.stage("place", len(prepared.kept)):
+        placements = model.place(prepared.kept)
+    with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
+        write_csv(placements, tmp)
+    if len(prepared.excluded):
+        with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
+                         what="the excluded list") as tmp:
+            write_csv(prepared.excluded, tmp)
+    return Placed(placements, prepared.excluded, out, excluded_path)
+
+
+#: games a partial season needs to be checked (fewer say nothing; "too early" covers the rest)
+INSEASON_MIN_GAMES = 5
+
+
+#: every file the in-season check may write into its output folder (besides the marker)
+INSEASON_FILES = ("inseason.csv", "inseason_excluded.csv", "inseason.html")
+
+
+def check_files(model_path, partial, against, out, config: Config | None = None, *, min_games=None,
+                min_minutes_per_game=None, alpha=None, season_games=82, inputs=()):
+    """The in-season check: partial-season files against full seasons, written to a folder.
+
+    Parameters
+    ----------
+    model_path : path
+        A ``model.json``.
+    partial, against : path or list of paths
+        The season under way, and earlier full seasons (files or folders).
+    out : path
+        Folder for ``inseason.csv``, ``inseason.html`` and ``inseason_excluded.csv``.
+    min_games, min_minutes_per_game : optional
+        Filters of the partial season (default 5 games and the model's minutes per game);
+        the full seasons use the model's filters.
+    alpha : float, optional
+        Level for "beyond noise" (default ``config.alpha``).
+    season_games : int
+        Games in a full season (horizon of ``games_to_conclusive``).
+    inputs : paths, optional
+        Other files the output must not touch (the CLI passes the config file).
+
+    Returns
+    -------
+    Checked
+        The checks (see README, "In-season check") and the rows not checked.
+    """
+    import pandas as pd
+
+    from .constants import FILTER_REASONS
+    from .inseason import check_partial
+    from .inseason_page import write_page
+    from .model import RoleModel
+    from .outputs import atomic_folder, check_output_folder
+    from .safecsv import write_csv
+
+    guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
+    check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
+    model = RoleModel.load(model_path)
+    base = _model_config(model, config)
+    part_config = base.replace(
+        min_games=min_games if min_games is not None else INSEASON_MIN_GAMES,
+        min_minutes_per_game=min_minutes_per_game)
+    part = prepare(partial, part_config)
+    full = prepare(against, base)
+    for prepared in (part, full):
+        model.check_features(prepared.features)
+    alpha = alpha if alpha is not None else base.alpha
+    checks, unmatched = check_partial(model, part.kept, full.kept, alpha=alpha, season_games=season_games)
+    unmatched = unmatched.assign(reason=FILTER_REASONS["no_earlier_season"], reason_code="no_earlier_season")
+    columns = [c for c in part.excluded.columns if c in unmatched.columns]
+    excluded = pd.concat([part.excluded, unmatched[columns]], ignore_index=True)
+    with atomic_folder(out, inputs=guarded) as tmp:
+        write_csv(checks, tmp / "inseason.csv")
+        write_csv(excluded, tmp / "inseason_excluded.csv")
+        write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,
+                   n_excluded=len(excluded))
+    return Checked(checks, excluded)
