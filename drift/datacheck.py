@@ -7,7 +7,6 @@ kept and excluded by reason, every warning, and whether a run would work.
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass, field
 
 __all__ = ["DataCheck", "check_data", "format_check"]
@@ -39,12 +38,11 @@ class DataCheck:
         return not self.problems
 
 
-def _reason_kind(reason: str) -> str:
-    kinds = []
-    for part in reason.split("; "):
-        m = re.match(r"(games|minutes per game) [\d.]+ < (\w+) ([\d.]+)", part)
-        kinds.append(f"{m.group(1)} < {m.group(3)}" if m else part)
-    return " and ".join(kinds)
+def _reason_kind(code: str, config) -> str:
+    """A filter reason code (see :data:`drift.constants.FILTER_REASONS`) with its threshold."""
+    words = {"few_games": f"games < {config.min_games:g}",
+             "few_minutes": f"minutes per game < {config.min_minutes_per_game:g}"}
+    return " and ".join(words.get(c, c) for c in code.split("+"))
 
 
 def _season_table(prepared):
@@ -114,7 +112,7 @@ def check_data(prepare, config, check_seasons) -> DataCheck:
             return DataCheck(warnings=said, problems=(str(exc),))
     said = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, DriftWarning)))
     excluded = prepared.excluded
-    by_reason = (excluded["reason"].map(_reason_kind).value_counts().rename_axis("reason").reset_index(name="n")
+    by_reason = (excluded["reason_code"].map(lambda code: _reason_kind(code, config)).value_counts().rename_axis("reason").reset_index(name="n")
                  if len(excluded) else None)
     return DataCheck(prepared=prepared, columns=column_summary(prepared.reading.columns), seasons=_season_table(prepared),
                      excluded_by_reason=by_reason, warnings=said, problems=tuple(_run_problems(prepared, config, check_seasons)),
