@@ -55,6 +55,11 @@ def _cells(text, mask, first_row, limit=5):
     return shown + more, len(idx)
 
 
+#: no count, rate or sample size in a season comes near this; larger values are broken cells
+#: (squares of them overflow the arithmetic and would turn results into NaN)
+MAX_MAGNITUDE = 1e9
+
+
 def numeric_column(series, *, where: dict, first_row: int = 2):
     """Floats from one column, parsed once.
 
@@ -96,6 +101,11 @@ def numeric_column(series, *, where: dict, first_row: int = 2):
         i = int(np.flatnonzero(infinite)[0])
         raise InputError(f"value {series.iloc[i]!r} is infinite; give a finite number or leave it empty",
                          row=first_row + i, **where)
+    huge = np.abs(values) > MAX_MAGNITUDE
+    if huge.any():
+        i = int(np.flatnonzero(huge)[0])
+        raise InputError(f"value {series.iloc[i]!r} is too large (beyond {MAX_MAGNITUDE:.0e}) for any count or "
+                         "rate; check the cell", row=first_row + i, **where)
     return values, how
 
 

@@ -50,6 +50,25 @@ def _roles(text: str):
     return value
 
 
+def _positive(text: str):
+    value = _count(text)
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number >= 1")
+    return value
+
+
+def _seed(text: str):
+    from .settings_rules import MAX_SEED
+
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number") from None
+    if not 0 <= value <= MAX_SEED:
+        raise argparse.ArgumentTypeError(f"{text!r}: a seed is a whole number from 0 to {MAX_SEED}")
+    return value
+
+
 def _finite(text: str):
     import math
 
@@ -130,7 +149,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
     run.add_argument("--alpha", type=_finite, help="level for 'beyond noise' (default 0.01)")
-    run.add_argument("--seed", type=int, help="random seed (default 0)")
+    run.add_argument("--seed", type=_seed, help="random seed (default 0)")
     _add_progress_options(run)
 
     place = sub.add_parser("place", help="place season files with a saved model",
@@ -143,7 +162,7 @@ def build_parser() -> argparse.ArgumentParser:
     place.add_argument("--against", nargs="+", metavar="DATA",
                        help="full seasons to check the files against (in-season check; default 5 games)")
     place.add_argument("--alpha", type=float, help="with --against: level for 'beyond noise' (default 0.01)")
-    place.add_argument("--season-games", type=int, default=82, metavar="N",
+    place.add_argument("--season-games", type=_positive, default=82, metavar="N",
                        help="with --against: games in a full season (default 82)")
     _add_progress_options(place)
 
@@ -155,8 +174,8 @@ def build_parser() -> argparse.ArgumentParser:
     demo = sub.add_parser("demo", help="write the fictional demo league",
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
-    demo.add_argument("--seed", type=int, default=2024, help="seed of the league (default 2024)")
-    demo.add_argument("--partial-games", type=int, metavar="N",
+    demo.add_argument("--seed", type=_seed, default=2024, help="seed of the league (default 2024)")
+    demo.add_argument("--partial-games", type=_positive, metavar="N",
                       help="also write the first N games of the next season to DIR/partial/")
     for p in (run, place, check, demo):  # --debug also after the command name
         p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=argparse.SUPPRESS)
@@ -165,7 +184,9 @@ def build_parser() -> argparse.ArgumentParser:
 
 def _config(args):
     from .config import load_config
+    from .preflight import check_regular
 
+    check_regular([args.config])
     config = load_config(args.config)
     changes = {}
     if args.command in ("run", "check"):

@@ -161,7 +161,7 @@ class ModelSettings(_Part):
     _rules = {
         "components": rules.components, "variance_threshold": rules.fraction_closed,
         "roles": rules.roles, "max_roles": rules.count_from(2), "noise_policy": rules.noise_policy,
-        "seed": rules.count_from(0), "n_init": rules.count_from(1),
+        "seed": rules.seed, "n_init": rules.count_from(1),
         "n_bootstrap": rules.count_from(1), "role_names": rules.text_map,
     }
 

@@ -126,6 +126,10 @@ def _call(func, args, debug):
         return 130, "drift: interrupted", sys.stderr
     except BrokenPipeError:
         return 141, None, None
+    except OSError as exc:  # the file system said no (disk full, permissions, a vanished file)
+        where = f"{exc.filename}: " if exc.filename else ""
+        reason = exc.strerror or str(exc) or type(exc).__name__
+        return 2, f"drift: error: {one_line(where + reason)}; check the path, free space and permissions", sys.stderr
     except (Exception, RecursionError) as exc:  # the last resort: one line, not a traceback
         if debug:
             import traceback

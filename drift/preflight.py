@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from .errors import InputError
 
-__all__ = ["check_settings"]
+__all__ = ["check_settings", "check_regular"]
 
 
 def check_settings(prepared, config) -> None:
@@ -41,3 +41,24 @@ def check_settings(prepared, config) -> None:
     if isinstance(r, int) and not isinstance(r, bool) and r > n_pool:
         raise InputError(f"roles={r} is more than the {n_pool} qualifying player-seasons of the pool; "
                          "give fewer roles or more data")
+
+
+def check_regular(paths) -> None:
+    """Refuse a given input that is neither a folder nor a regular file.
+
+    Reading a named pipe or a device waits for a writer that may never come; drift refuses it
+    at once instead of hanging. Missing paths are left to the reader, which says what it wanted.
+    """
+    import os
+    import stat
+
+    for path in paths:
+        if path is None:
+            continue
+        try:
+            mode = os.stat(path).st_mode
+        except OSError:
+            continue
+        if not (stat.S_ISDIR(mode) or stat.S_ISREG(mode)):
+            raise InputError("is not a regular file or folder (a pipe, socket or device); give a file",
+                             file=path)

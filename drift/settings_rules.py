@@ -13,7 +13,7 @@ from numbers import Integral, Real
 from .constants import COMPONENT_RULES, KMEANS_RESTARTS, NOISE_POLICIES, STANDARD_COLUMNS
 from .errors import ConfigError
 
-__all__ = ["non_negative", "count_from", "fraction_open", "fraction_closed", "components", "roles",
+__all__ = ["non_negative", "count_from", "seed", "MAX_SEED", "fraction_open", "fraction_closed", "components", "roles",
            "noise_policy", "optional_text", "names", "optional_names", "compare", "text_map",
            "columns", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
 
@@ -42,6 +42,16 @@ def count_from(low: int):
             _fail(name, value, f"a whole number >= {low}")
         return int(value)
     return rule
+
+
+#: random seeds are handed to numpy and scikit-learn, which take 0 <= seed < 2**32
+MAX_SEED = 2**32 - 1
+
+
+def seed(name, value):
+    if not _is_int(value) or not 0 <= value <= MAX_SEED:
+        _fail(name, value, f"a whole number from 0 to {MAX_SEED}")
+    return int(value)
 
 
 def fraction_open(name, value):

@@ -90,6 +90,14 @@ def _nan_model(w, tmp):
     return _file(tmp, "m.json", text)
 
 
+def _fifo(tmp, name):
+    import os
+
+    path = tmp / name
+    os.mkfifo(path)
+    return path
+
+
 def _place(w, tmp, model=None, data=None, out=None, *extra):
     return ["place", str(model or w.model), str(data or w.one_file),
             "--out", str(out or tmp / "placed.csv"), *extra]
@@ -138,7 +146,13 @@ ARGUMENT_CASES = [
     Case("alpha 0", lambda w, t: _run(w, t, "--alpha", "0"), r"alpha"),
     Case("alpha 1", lambda w, t: _run(w, t, "--alpha", "1"), r"alpha"),
     Case("alpha negative", lambda w, t: _run(w, t, "--alpha=-0.5"), r"alpha"),
-    Case("seed text", lambda w, t: _run(w, t, "--seed", "abc"), r"invalid int"),
+    Case("seed text", lambda w, t: _run(w, t, "--seed", "abc"), r"give a whole number"),
+    Case("seed negative", lambda w, t: _run(w, t, "--seed=-1"), r"from 0 to 4294967295"),
+    Case("seed too large", lambda w, t: _run(w, t, "--seed", "99999999999999999999"), r"from 0 to 4294967295"),
+    Case("demo seed negative", lambda w, t: ["demo", "--out", str(t / "d"), "--seed=-5"], r"from 0 to"),
+    Case("demo partial games 0", lambda w, t: ["demo", "--out", str(t / "d"), "--partial-games", "0"],
+         r">= 1"),
+    Case("place season games 0", lambda w, t: _place(w, t, None, None, None, "--season-games", "0"), r">= 1"),
     Case("noise policy unknown", lambda w, t: _run(w, t, "--noise-policy", "mild"), r"invalid choice"),
     Case("compare one season", lambda w, t: _run(w, t, "--compare", "2021-22"), r"expected 2 arguments"),
     Case("missing --out", lambda w, t: ["run", str(w.folder)], r"--out"),
@@ -162,6 +176,8 @@ RUN_CASES = [
          r"column 'games'.*row 2 'many'"),
     Case("data infinite value", lambda w, t: _run(w, t, data=_file(
         t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,50,900,inf\n")), r"infinite"),
+    Case("data huge value", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,50,900,1e300\n")), r"too large"),
     Case("data negative minutes", lambda w, t: _run(w, t, data=_file(
         t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,50,-900,20\n")), r">= 0"),
     Case("data duplicate player", lambda w, t: _run(w, t, data=_file(
@@ -203,6 +219,8 @@ RUN_CASES = [
     Case("filters exclude everyone", lambda w, t: _run(w, t, "--min-games", "500"),
          r"no player-season passes the filters"),
     Case("previous missing", lambda w, t: _run(w, t, "--previous", str(t / "none.json")), r"not found"),
+    Case("previous is a pipe", lambda w, t: _run(w, t, "--previous", str(_fifo(t, "m.json"))),
+         r"is not a regular file"),
     Case("previous not json", lambda w, t: _run(w, t, "--previous", str(_file(t, "m.json", "{ nope"))),
          r"not valid JSON"),
     Case("previous is a folder", lambda w, t: _run(w, t, "--previous", str(w.folder)), r"is a folder"),
@@ -216,6 +234,8 @@ RUN_CASES = [
 
 CONFIG_CASES = [
     Case("config missing", lambda w, t: _run(w, t, "--config", str(t / "none.toml")), r"not found"),
+    Case("config is a pipe", lambda w, t: _run(w, t, "--config", str(_fifo(t, "c.toml"))),
+         r"is not a regular file"),
     Case("config not toml", lambda w, t: _config(w, t, "[model\nroles = 3"), r"not valid TOML"),
     Case("config not utf-8", lambda w, t: _run(w, t, "--config", str(_file(t, "c.toml", b"\xff\xfe[m]"))),
          r"TOML|UTF-8"),
@@ -244,6 +264,8 @@ CONFIG_CASES = [
     Case("config max_roles 1", lambda w, t: _config(w, t, "[model]\nmax_roles = 1\n"), r"max_roles"),
     Case("config max_roles text", lambda w, t: _config(w, t, "[model]\nmax_roles = 'ten'\n"), r"max_roles"),
     Case("config seed fraction", lambda w, t: _config(w, t, "[model]\nseed = 1.5\n"), r"seed"),
+    Case("config seed too large", lambda w, t: _config(w, t, "[model]\nseed = 99999999999\n"),
+         r"seed=99999999999 must be a whole number from 0 to"),
     Case("config noise policy unknown", lambda w, t: _config(w, t, "[model]\nnoise_policy = 'mild'\n"),
          r"noise_policy"),
     Case("config compare one season", lambda w, t: _config(w, t, "[moves]\ncompare = ['2021-22']\n"),
@@ -310,6 +332,8 @@ PLACE_CASES = [
          r"not a file drift wrote"),
     Case("place out is a folder", lambda w, t: _place(w, t, out=(t / "d").mkdir() or t / "d"),
          r"not a regular file"),
+    Case("place model is a pipe", lambda w, t: _place(w, t, model=_fifo(t, "m.json")), r"is not a regular file"),
+    Case("place data is a pipe", lambda w, t: _place(w, t, data=_fifo(t, "2024-25.csv")), r"is not a regular file"),
     Case("place min-minutes nan", lambda w, t: _place(w, t, None, None, None, "--min-minutes", "nan"),
          r"finite number"),
     Case("demo over a data folder", lambda w, t: ["demo", "--out", str(_file(t, "2021-22.csv", "x").parent)],

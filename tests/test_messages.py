@@ -58,7 +58,7 @@ def test_internal_error_is_one_line_with_a_pointer_to_debug(capsys):
     assert "Traceback" in err and err.strip().splitlines()[-1].startswith("drift: error: internal error")
 
 
-@pytest.mark.parametrize("exc", [RecursionError("deep"), MemoryError(), OSError(28, "No space left on device")])
+@pytest.mark.parametrize("exc", [RecursionError("deep"), MemoryError()])
 def test_even_system_failures_are_one_line(capsys, exc):
     def job(args):
         raise exc
@@ -66,6 +66,15 @@ def test_even_system_failures_are_one_line(capsys, exc):
     assert run_guarded(job, None) == 2
     err = capsys.readouterr().err
     assert err.count("\n") == 1 and err.startswith("drift: error: internal error")
+
+
+def test_a_file_system_refusal_is_one_line_naming_the_file(capsys):
+    def job(args):
+        raise OSError(28, "No space left on device", "out/report.html")
+
+    assert run_guarded(job, None) == 2
+    assert capsys.readouterr().err == ("drift: error: out/report.html: No space left on device; check the "
+                                       "path, free space and permissions\n")
 
 
 def test_ctrl_c_is_one_line_exit_130(capsys):
