@@ -37,11 +37,41 @@ def demo_model(demo_prepared):
     return fit_model(demo_prepared)
 
 
+#: the one comparison every shared demo run makes, so the in-process analysis and the CLI run
+#: below write the same files
+DEMO_COMPARE = ("2019-20", "2024-25")
+
+
 @pytest.fixture(scope="session")
 def demo_analysis(demo_prepared, demo_model):
     from drift.api import analyse
+    from drift.config import Config
 
-    return analyse(demo_prepared, demo_model)
+    return analyse(demo_prepared, demo_model, Config(compare=DEMO_COMPARE))
+
+
+@pytest.fixture(scope="session")
+def demo_run(tmp_path_factory):
+    """``drift run`` on the demo league through the CLI, once per session: (exit code, out folder).
+
+    With the two pipelines above this is the suite's third and last full fit of the demo league.
+    """
+    from drift.cli import main
+
+    out = tmp_path_factory.mktemp("run") / "report"
+    code = main(["run", str(DEMO), "--out", str(out), "--compare", *DEMO_COMPARE])
+    return code, out
+
+
+@pytest.fixture(scope="session")
+def small_run(demo_run, tmp_path_factory):
+    """A cheap CLI run on two seasons with fixed counts, carrying ids from the demo run's model."""
+    from drift.cli import main
+
+    out = tmp_path_factory.mktemp("small") / "report"
+    code = main(["run", str(DEMO), "--out", str(out), "--roles", "4", "--components", "3",
+                 "--reference", "2023-24", "2024-25", "--previous", str(demo_run[1] / "model.json")])
+    return code, out
 
 
 def small_table(n_players=6, seasons=("2021-22", "2022-23"), seed=0):

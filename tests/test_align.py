@@ -79,12 +79,12 @@ def test_relabel_carries_ids_names_descriptions():
     assert new.role_ids_ == fitted_ids  # the fitted model is left as it was
 
 
-def test_refit_on_shifted_pool_keeps_roles(demo_prepared):
-    """Demo league: pool 2019-23 then pool 2021-25 with the first as --previous."""
+def test_refit_on_shifted_pool_keeps_roles(demo_prepared, demo_model):
+    """Demo league: the session's model (pool 2019-25), then a refit on 2021-25 with it as --previous."""
     from drift.api import fit_model
     from drift.config import Config
 
-    first = fit_model(demo_prepared, Config(reference=("2019-20", "2020-21", "2021-22", "2022-23")))
+    first = demo_model
     second = fit_model(demo_prepared, Config(reference=("2021-22", "2022-23", "2023-24", "2024-25")))
     al = align_models(first, second)
     second = relabel(second, first, al)

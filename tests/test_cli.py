@@ -17,13 +17,6 @@ OUTPUTS = {"report.html", "model.json", "placements.csv", "moves.csv", "excluded
            "role_drift.csv", "comparables.csv", "features.csv"}
 
 
-@pytest.fixture(scope="module")
-def demo_run(tmp_path_factory):
-    out = tmp_path_factory.mktemp("run") / "report"
-    code = main(["run", str(DEMO), "--out", str(out), "--compare", "2019-20", "2024-25"])
-    return code, out
-
-
 def test_run_writes_every_output(demo_run, capsys):
     code, out = demo_run
     assert code == 0
@@ -41,23 +34,29 @@ def test_run_writes_every_output(demo_run, capsys):
     assert json.loads((out / "model.json").read_text())["schema"] == "drift-role-model"
 
 
-def test_outputs_are_byte_identical_on_rerun(demo_run, tmp_path):
+def test_outputs_are_byte_identical_on_rerun(demo_run, demo_analysis, tmp_path):
+    """The CLI run and the session's in-process run of the same settings are two separate fits."""
+    from drift.api import write_outputs
+
     _, out = demo_run
     again = tmp_path / "again"
-    assert main(["run", str(DEMO), "--out", str(again), "--compare", "2019-20", "2024-25"]) == 0
+    again.mkdir()
+    write_outputs(demo_analysis, again)
     for name in OUTPUTS:
         assert (again / name).read_bytes() == (out / name).read_bytes(), name
 
 
-def test_previous_model_carries_ids_and_writes_alignment(demo_run, tmp_path):
-    _, out = demo_run
-    new = tmp_path / "refit"
-    code = main(["run", str(DEMO), "--out", str(new), "--previous", str(out / "model.json"),
-                 "--reference", "2021-22", "2022-23", "2023-24", "2024-25"])
+def test_previous_model_carries_ids_and_writes_alignment(small_run, demo_run):
+    code, new = small_run
     assert code == 0
     al = pd.read_csv(new / "alignment.csv", keep_default_na=False)
     assert {"previous_id", "new_id", "cost", "status"} <= set(al.columns)
-    assert (al["status"] == "kept").sum() >= 6
+    previous = {r["id"] for r in json.loads((demo_run[1] / "model.json").read_text())["roles"]}
+    carried = {r["id"] for r in json.loads((new / "model.json").read_text())["roles"]}
+    kept = al[al["status"] == "kept"]
+    assert len(kept) >= 3 and set(kept["carried_id"]) <= previous & carried
+    # a role with no match gets a fresh id, never one the previous model used for another role
+    assert not set(al.loc[al["status"] == "new", "carried_id"]) & previous
 
 
 def test_place_command(demo_run, tmp_path, capsys):
@@ -76,12 +75,12 @@ def test_place_command(demo_run, tmp_path, capsys):
     assert "excluded by the filters" in capsys.readouterr().out
 
 
-def test_fixed_roles_and_components(tmp_path):
-    out = tmp_path / "fixed"
-    assert main(["run", str(DEMO), "--out", str(out), "--roles", "5", "--components", "3",
-                 "--reference", "2023-24", "2024-25"]) == 0
+def test_fixed_roles_and_components(small_run):
+    code, out = small_run
+    assert code == 0
     model = json.loads((out / "model.json").read_text())
-    assert len(model["roles"]) == 5 and len(model["components"]) == 3
+    assert len(model["roles"]) == 4 and len(model["components"]) == 3
+    assert model["reference_seasons"] == ["2023-24", "2024-25"]
 
 
 def _fails(argv, capsys):

@@ -102,12 +102,8 @@ def test_templates_found_from_any_folder(tmp_path):
     assert out.returncode == 0, out.stderr
 
 
-def test_requested_comparison_and_comparables_shown(demo_prepared, demo_model):
-    from drift.api import analyse
-    from drift.config import Config
-
-    analysis = analyse(demo_prepared, demo_model, Config(compare=("2019-20", "2024-25")))
-    context = build_context(analysis)
+def test_requested_comparison_and_comparables_shown(demo_analysis):
+    context = build_context(demo_analysis)  # the shared analysis compares 2019-20 with 2024-25
     assert context.requested_label == "2019-20 → 2024-25" and len(context.requested) > 50
     assert {r["note"] for r in context.requested} == {"requested comparison"}
     page = _Page()
