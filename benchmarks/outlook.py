@@ -8,11 +8,12 @@ role that differs between the two. Reported: the share of players with no real
 change that are beyond noise (false flags; nominal = alpha) and called
 *changed*, and the share of real changes called *changed* (recall) and *too early*.
 
-Outlook: each league's backtest (:func:`drift.backtest.backtest`) pooled over
-leagues: log loss and Brier score beside the naive "same role as last season",
-and the calibration table over all leagues (bins with 100+ probabilities judged).
+Outlook: each league's backtest (:func:`drift.backtest.backtest`) on the three
+demo seeds and ten held-out leagues of :mod:`drift.simulate` (4 to 12 roles,
+blends, change rates from none to 12%), pooled: log loss and Brier score beside
+the naive "same role as last season", and the calibration tables.
 
-    python benchmarks/outlook.py            # 3 demo seeds, 6 family leagues (a few CPU minutes)
+    python benchmarks/outlook.py            # 3 demo seeds, 10 family leagues (a few CPU minutes)
     python benchmarks/outlook.py --quick    # 1 demo seed, 2 family leagues
 """
 
@@ -81,7 +82,7 @@ def main(argv=None):
     parser.add_argument("--quick", action="store_true")
     args = parser.parse_args(argv)
     seeds = (11,) if args.quick else (11, 12, 13)
-    n_family = 2 if args.quick else 6
+    n_family = 2 if args.quick else 10
     in_rows, back_rows, probs = [], [], []
     with threadpool_limits(limits=1), tempfile.TemporaryDirectory() as tmp:
         for seed in seeds:
@@ -119,26 +120,38 @@ def report_inseason(t):
     print("null scale by games:", t.groupby("games")["null_scale"].mean().round(3).to_dict())
 
 
+def _pooled(cal):
+    return cal.assign(p=cal["predicted"] * cal["n"], o=cal["observed"] * cal["n"])
+
+
 def report_outlook(b, backtests):
-    print("\nOutlook backtest (per league, all scored seasons pooled)")
+    print("\nOutlook backtest (per league, all scored seasons pooled; naive = same role as last season "
+          "at the earlier seasons' stay rate, oracle = at the scored season's)")
     allrows = b[b["season"] == "all"]
-    print(allrows[["league", "n_test", "log_loss", "naive_log_loss", "brier", "naive_brier",
+    print(allrows[["league", "n_test", "log_loss", "naive_log_loss", "oracle_log_loss", "brier", "naive_brier",
                    "accuracy"]].round(3).to_string(index=False))
     w = allrows["n_test"].to_numpy(float)
-    for col in ("log_loss", "naive_log_loss", "brier", "naive_brier"):
+    for col in ("log_loss", "naive_log_loss", "oracle_log_loss", "brier", "naive_brier"):
         print(f"pooled {col}: {np.average(allrows[col], weights=w):.3f}")
     print(f"outlook better than naive log loss in {(allrows['log_loss'] < allrows['naive_log_loss']).sum()} "
           f"of {len(allrows)} leagues")
     cal = pd.concat([bt.calibration for bt in backtests])
-    pooled = cal.assign(p=cal["predicted"] * cal["n"], o=cal["observed"] * cal["n"]).groupby(
-        ["bin_low", "bin_high"], as_index=False)[["n", "p", "o"]].sum()
-    pooled["predicted"] = pooled["p"] / pooled["n"]
-    pooled["observed"] = pooled["o"] / pooled["n"]
-    pooled["gap"] = pooled["observed"] - pooled["predicted"]
-    print("\nCalibration, all leagues pooled")
-    print(pooled[["bin_low", "bin_high", "n", "predicted", "observed", "gap"]].round(3).to_string(index=False))
-    judged = pooled[pooled["n"] >= 100]
-    print(f"largest |gap| over bins with 100+ probabilities: {judged['gap'].abs().max():.3f}")
+    bins = _pooled(cal[cal["kind"] == "role chance"]).groupby(["bin_low", "bin_high"], as_index=False)[
+        ["n", "p", "o"]].sum()
+    bins = bins.assign(predicted=bins["p"] / bins["n"], observed=bins["o"] / bins["n"])
+    bins["gap"] = bins["observed"] - bins["predicted"]
+    print("\nRole chances in bins of 0.1, all leagues pooled")
+    print(bins[["bin_low", "bin_high", "n", "predicted", "observed", "gap"]].round(3).to_string(index=False))
+    print(f"largest |gap| over bins with 100+ chances: {bins.loc[bins['n'] >= 100, 'gap'].abs().max():.3f}")
+    dec = cal[cal["kind"] == "change decile"].copy()
+    # deciles of each league's own players; pooled by decile rank across leagues
+    dec["decile"] = np.tile(np.arange(10), len(dec) // 10)
+    d = _pooled(dec).groupby("decile", as_index=False)[["n", "p", "o"]].sum()
+    d = d.assign(predicted=d["p"] / d["n"], observed=d["o"] / d["n"])
+    d["gap"] = d["observed"] - d["predicted"]
+    print("\nChance of changing role, by decile (each league's players in ten groups), pooled")
+    print(d[["decile", "n", "predicted", "observed", "gap"]].round(3).to_string(index=False))
+    print(f"largest |gap| over deciles: {d['gap'].abs().max():.3f}")
 
 
 if __name__ == "__main__":

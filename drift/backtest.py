@@ -4,21 +4,25 @@ For every season that has earlier pairs of consecutive seasons, the outlook
 (:class:`drift.outlook.RoleOutlook`) is refitted on the seasons before it and
 scored on what drift placed that season: log loss, Brier score (sum over roles
 of the squared error) and the accuracy of the projected role, beside the naive
-forecast "same role as last season" with the constant confidence that is best on
-the season scored. The calibration table pools every player-and-role
-probability in bins of 0.1.
+forecast "same role as last season" with a constant confidence: fitted on the
+same earlier seasons (``naive_*``), and the best one for the season scored
+(``oracle_*``, an advantage no forecast has). Two calibration tables pool the
+scored seasons: every player-and-role chance in bins of 0.1, and players in ten
+equal groups by their chance of changing role.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["Backtest", "backtest", "calibration_table", "naive_proba", "scores"]
+__all__ = ["Backtest", "backtest", "calibration_table", "change_deciles", "naive_proba", "scores",
+           "BACKTEST_COLUMNS"]
 
 
 @dataclass(frozen=True)
 class Backtest:
-    """Scores per season (``seasons``) and the pooled calibration table (``calibration``)."""
+    """Scores per season (``seasons``) and the pooled calibration tables (``calibration``:
+    role chances in bins of 0.1, then players in deciles of their chance of changing role)."""
 
     seasons: object
     calibration: object
@@ -45,20 +49,47 @@ def naive_proba(last_idx, k, confidence):
     return prob
 
 
-def backtest(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
+#: backtest.csv columns
+BACKTEST_COLUMNS = ("season", "scored", "n_train", "n_test", "stay_rate", "log_loss", "brier", "accuracy",
+                    "naive_confidence", "naive_log_loss", "naive_brier", "oracle_log_loss", "oracle_brier")
+_SCORES = ("log_loss", "brier", "accuracy", "naive_log_loss", "naive_brier", "oracle_log_loss", "oracle_brier")
+
+
+def _score_season(fitted, train, test, ids):
+    """Scores of one season: the outlook, and "same role as last season" at two confidences."""
+    import numpy as np
+
+    k = len(ids)
+    prob = fitted.predict_proba(test)
+    truth = np.array([ids.index(r) for r in test["next_role"]], int)
+    last = np.array([ids.index(r) for r in test["role"]], int)
+    stay = float((truth == last).mean())
+    # the naive confidence a user could have had: the share who kept their role before
+    conf = float(np.clip((train["next_role"] == train["role"]).mean(), 1e-6, 1 - 1e-6))
+    row = {"scored": True, "stay_rate": stay, "naive_confidence": conf,
+           "accuracy": float((prob.argmax(axis=1) == truth).mean())}
+    row["log_loss"], row["brier"] = scores(prob, truth)
+    row["naive_log_loss"], row["naive_brier"] = scores(naive_proba(last, k, conf), truth)
+    oracle = float(np.clip(stay, 1e-6, 1 - 1e-6))
+    row["oracle_log_loss"], row["oracle_brier"] = scores(naive_proba(last, k, oracle), truth)
+    return row, prob, truth, last
+
+
+def backtest(placements, model, *, decay=0.5, penalty=10.0, min_pairs=30):
     """Refit the outlook on the seasons before each season and score it on that season.
 
-    The naive forecast keeps last season's role with the constant confidence that
-    is best *on the season scored* (the share who kept their role), an oracle
-    advantage that makes it a strict baseline. Seasons with fewer than
-    ``min_pairs`` earlier pairs are listed with ``scored`` false.
+    Two naive forecasts keep last season's role: ``naive_*`` with the constant
+    confidence fitted on the same earlier seasons (the share who kept their role),
+    and ``oracle_*`` with the confidence that is best on the season scored (an
+    advantage no forecast has). Seasons with fewer than ``min_pairs`` earlier
+    pairs are listed with ``scored`` false.
 
     Returns
     -------
     Backtest
-        ``seasons``: season, scored, n_train, n_test, stay_rate, log_loss, brier,
-        naive_confidence, naive_log_loss, naive_brier, accuracy (of the projected
-        role) plus a pooled ``all`` row; ``calibration``: see :func:`calibration_table`.
+        ``seasons``: :data:`BACKTEST_COLUMNS`, one row per season with a previous one,
+        plus an ``all`` row (scores averaged over players); ``calibration``: see
+        :func:`calibration_table`.
     """
     import numpy as np
     import pandas as pd
@@ -67,45 +98,57 @@ def backtest(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
 
     h = history_table(placements, decay=decay)
     ids = list(model.role_ids_)
-    k = len(ids)
-    rows, probs, truths = [], [], []
-    pooled = {"ll": [], "br": [], "nll": [], "nbr": [], "acc": [], "n": []}
+    rows, probs, truths, lasts = [], [], [], []
     for season in sorted(h["next_season"].dropna().unique()):
         train = h[h["next_season"].notna() & (h["next_season"] < season)]
         test = h[h["next_season"] == season].reset_index(drop=True)
         row = {"season": season, "scored": False, "n_train": int(len(train)), "n_test": int(len(test))}
-        if len(train) < min_pairs or not len(test):
-            rows.append(row)
-            continue
-        fitted = RoleOutlook(decay=decay, C=C, min_pairs=min_pairs).fit(train, model)
-        prob = fitted.predict_proba(test)
-        truth = np.array([ids.index(r) for r in test["next_role"]], int)
-        last = np.array([ids.index(r) for r in test["role"]], int)
-        stay = float((truth == last).mean())
-        conf = float(np.clip(stay, 1e-6, 1 - 1e-6))
-        ll, br = scores(prob, truth)
-        nll, nbr = scores(naive_proba(last, k, conf), truth)
-        acc = float((prob.argmax(axis=1) == truth).mean())
-        row.update(scored=True, stay_rate=stay, log_loss=ll, brier=br, naive_confidence=conf,
-                   naive_log_loss=nll, naive_brier=nbr, accuracy=acc)
+        if len(train) >= min_pairs and len(test):
+            fitted = RoleOutlook(decay=decay, penalty=penalty, min_pairs=min_pairs).fit(train, model)
+            scored, prob, truth, last = _score_season(fitted, train, test, ids)
+            row.update(scored)
+            probs.append(prob)
+            truths.append(truth)
+            lasts.append(last)
         rows.append(row)
-        for key, v in zip(("ll", "br", "nll", "nbr", "acc", "n"), (ll, br, nll, nbr, acc, len(test))):
-            pooled[key].append(v)
-        probs.append(prob)
-        truths.append(truth)
-    if pooled["n"]:
-        w = np.asarray(pooled["n"], float)
-        avg = {key: float(np.average(pooled[key], weights=w)) for key in ("ll", "br", "nll", "nbr", "acc")}
-        rows.append({"season": "all", "scored": True, "n_train": np.nan, "n_test": int(w.sum()),
-                     "stay_rate": np.nan, "log_loss": avg["ll"], "brier": avg["br"],
-                     "naive_confidence": np.nan, "naive_log_loss": avg["nll"], "naive_brier": avg["nbr"],
-                     "accuracy": avg["acc"]})
-    seasons = pd.DataFrame(rows, columns=["season", "scored", "n_train", "n_test", "stay_rate", "log_loss",
-                                          "brier", "naive_confidence", "naive_log_loss", "naive_brier",
-                                          "accuracy"])
-    calib = calibration_table(np.vstack(probs), np.concatenate(truths)) if probs else calibration_table(
-        np.zeros((0, k)), np.zeros(0, int))
-    return Backtest(seasons=seasons, calibration=calib)
+    seasons = pd.DataFrame(rows, columns=list(BACKTEST_COLUMNS))
+    done = seasons[seasons["scored"].astype(bool)]
+    if len(done):
+        w = done["n_test"].to_numpy(float)
+        allrow = {c: float(np.average(done[c].astype(float), weights=w)) for c in _SCORES}
+        allrow.update(season="all", scored=True, n_test=int(w.sum()))
+        seasons = pd.concat([seasons, pd.DataFrame([allrow], columns=list(BACKTEST_COLUMNS))],
+                            ignore_index=True)
+    k = len(ids)
+    prob = np.vstack(probs) if probs else np.zeros((0, k))
+    truth = np.concatenate(truths) if truths else np.zeros(0, int)
+    last = np.concatenate(lasts) if lasts else np.zeros(0, int)
+    return Backtest(seasons=seasons, calibration=pd.concat(
+        [calibration_table(prob, truth), change_deciles(prob, truth, last)], ignore_index=True))
+
+
+def change_deciles(prob, truth_idx, last_idx, *, groups=10):
+    """Players in ten equal groups by their predicted chance of changing role: predicted and observed.
+
+    Returns
+    -------
+    DataFrame with :func:`calibration_table`'s columns, ``kind`` = "change decile";
+    ``bin_low`` / ``bin_high`` are the smallest and largest chance in the group.
+    """
+    import numpy as np
+    import pandas as pd
+
+    rows = np.arange(len(truth_idx))
+    change = 1 - prob[rows, last_idx] if len(rows) else np.zeros(0)
+    moved = (truth_idx != last_idx).astype(float)
+    order = np.argsort(change, kind="stable")
+    out = []
+    for part in np.array_split(order, min(groups, len(order))) if len(order) else []:
+        pred, obs = float(change[part].mean()), float(moved[part].mean())
+        out.append({"kind": "change decile", "bin_low": float(change[part].min()),
+                    "bin_high": float(change[part].max()), "n": int(len(part)), "predicted": pred,
+                    "observed": obs, "gap": obs - pred})
+    return pd.DataFrame(out, columns=["kind", "bin_low", "bin_high", "n", "predicted", "observed", "gap"])
 
 
 def calibration_table(prob, truth_idx, *, bins=10):
@@ -113,7 +156,8 @@ def calibration_table(prob, truth_idx, *, bins=10):
 
     Returns
     -------
-    DataFrame: bin_low, bin_high, n, predicted, observed, gap (observed - predicted).
+    DataFrame: kind (= "role chance"), bin_low, bin_high, n, predicted, observed,
+    gap (observed - predicted).
     """
     import numpy as np
     import pandas as pd
@@ -130,6 +174,6 @@ def calibration_table(prob, truth_idx, *, bins=10):
         m = int(sel.sum())
         pred = float(p[sel].mean()) if m else np.nan
         obs = float(y[sel].mean()) if m else np.nan
-        rows.append({"bin_low": b / bins, "bin_high": (b + 1) / bins, "n": m, "predicted": pred,
+        rows.append({"kind": "role chance", "bin_low": b / bins, "bin_high": (b + 1) / bins, "n": m, "predicted": pred,
                      "observed": obs, "gap": obs - pred if m else np.nan})
     return pd.DataFrame(rows)

@@ -6,13 +6,19 @@ scores over the seasons so far (each season weighted by its minutes times
 ``decay`` per season back, so the latest season counts most), together with his
 latest role and the decayed minutes behind the summary.
 
-* **Role probabilities** come from a multinomial logistic regression of next season's role on:
-  the latest role (one column per role: the data's year-to-year stay and change rates by role),
-  the squared distances of the history summary and of the latest season to every role centre in
-  units of the pool's within-role variance (the player's own evidence, including a player sitting
-  between two roles), and those history distances times the log sample (how far to trust the
-  evidence at his sample size). The L2 penalty regresses everything toward the base rates; the
-  fit uses every pair of consecutive qualifying seasons in the data.
+* **Role probabilities** come from a conditional logit (:mod:`drift.choice`):
+  each role's utility for a player is a weighted sum of features of the player
+  *and* that role, with weights shared by all roles: he stays (the role is his
+  latest); how close his history summary and his latest season sit to the role's
+  centre (minus log(1 + d^2 / 2 s^2), s^2 the pool's within-role variance), each
+  also times the log sample behind the history (how far to trust it); stays
+  times the log sample and times the log number of seasons; the role is the one
+  nearest his history, or the second nearest his latest season. Per role, the
+  role's pull and its own extra stay rate. Every weight except "stays" carries a
+  ridge penalty (``penalty``, in players), so with little evidence the outlook is
+  "same role as last season" at the data's stay rate, and role-by-role rates are
+  regressed toward the league-wide ones. The fit uses every pair of consecutive
+  qualifying seasons in the data.
 * **Expected position**: per component, a least-squares line of next season's
   score on the history score, its slope depending on the log sample
   (regression to the mean is stronger for short histories); the root-mean-square
@@ -90,8 +96,9 @@ class RoleOutlook:
     ----------
     decay : float
         Weight of each earlier season per season back (with its minutes).
-    C : float
-        Inverse L2 strength of the role regression (smaller: closer to base rates).
+    penalty : float
+        Ridge strength on the per-role terms, in players (larger: each role's rates
+        closer to the league-wide ones).
     min_pairs : int
         Fewest consecutive-season pairs needed to fit.
 
@@ -101,8 +108,8 @@ class RoleOutlook:
     centroids_ : ndarray (k, q)
     within_var_ : float
     n_pairs_ : int
-    base_rates_ : ndarray (k,)
-        Share of each role among next seasons (smoothed by one per role).
+    coef_ : ndarray (m,)
+        Conditional-logit coefficients (:meth:`_design` order).
     stay_rates_ : dict
         Role id -> share of its players who kept it the next season.
     slopes_ : ndarray (q, 2)
@@ -111,26 +118,41 @@ class RoleOutlook:
         Sample-size bin edges (log decayed minutes) and the RMS residual distance in each.
     """
 
-    def __init__(self, *, decay=0.5, C=0.3, min_pairs=30):
+    def __init__(self, *, decay=0.5, penalty=10.0, min_pairs=30):
         self.decay = decay
-        self.C = C
+        self.penalty = penalty
         self.min_pairs = min_pairs
 
     def _design(self, h):
-        """Feature matrix of history rows ``h`` (see module docstring)."""
+        """Features (n, k, m) of each history row and role (see :mod:`drift.choice`).
+
+        Shared: stays (the role is his latest), closeness of the history and of the
+        latest season to the role (minus log(1 + d^2 / 2 s^2), s^2 the within-role
+        variance), both times the log sample, stays times the log sample and times
+        the log number of seasons. Per role (penalised): the role's pull, and its
+        own extra stay rate.
+        """
         import numpy as np
 
         pcs = [f"pc{j + 1}" for j in range(self.centroids_.shape[1])]
         hist = h[[f"hist_{c}" for c in pcs]].to_numpy(float)
         last = h[pcs].to_numpy(float)
         scale = 2 * self.within_var_
-        d_hist = ((hist[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale
-        d_last = ((last[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale
-        # distances grow without bound far from a role; a log keeps the regression linear-ish
-        d_hist, d_last = np.log1p(d_hist), np.log1p(d_last)
-        onehot = (h["role"].to_numpy()[:, None] == np.asarray(self.role_ids_)[None]).astype(float)
-        size = np.log(np.maximum(h["history_minutes"].to_numpy(float), 1.0))[:, None] - self.size_mean_
-        return np.hstack([onehot, d_hist, d_last, d_hist * size, size])
+        near_hist = -np.log1p(((hist[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale)
+        near_last = -np.log1p(((last[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2) / scale)
+        k = len(self.role_ids_)
+        stay = (h["role"].to_numpy()[:, None] == np.asarray(self.role_ids_)[None]).astype(float)
+        size = (np.log(np.maximum(h["history_minutes"].to_numpy(float), 1.0)) - self.size_mean_)[:, None]
+        seasons = np.log(h["history_seasons"].to_numpy(float))[:, None]
+        rows = np.arange(len(h))
+        first_hist = np.zeros_like(stay)
+        first_hist[rows, near_hist.argmax(axis=1)] = 1.0
+        second_last = np.zeros_like(stay)
+        second_last[rows, np.argsort(-near_last, axis=1)[:, 1 if k > 1 else 0]] = 1.0
+        shared = np.stack([stay, near_hist, near_last, near_hist * size, near_last * size, stay * size,
+                           stay * seasons, first_hist, second_last], axis=2)
+        eye = np.broadcast_to(np.eye(k)[None], (len(h), k, k))
+        return np.concatenate([shared, eye, stay[:, :, None] * eye], axis=2)
 
     def fit(self, placements, model):
         """Fit on every pair of a player's consecutive placed seasons.
@@ -138,7 +160,8 @@ class RoleOutlook:
         Parameters
         ----------
         placements : DataFrame
-            As written by :func:`drift.place.place` (all seasons).
+            As written by :func:`drift.place.place` (all seasons), or a
+            :func:`history_table` of them.
         model : RoleModel
             The fitted model that placed them (role ids, centres, within-role variance).
 
@@ -147,7 +170,8 @@ class RoleOutlook:
         self
         """
         import numpy as np
-        from sklearn.linear_model import LogisticRegression
+
+        from .choice import fit_choice
 
         self.role_ids_ = list(model.role_ids_)
         self.centroids_ = np.asarray(model.centroids_, float)
@@ -159,19 +183,17 @@ class RoleOutlook:
                              f"the data have {len(pairs)}")
         self.n_pairs_ = int(len(pairs))
         self.size_mean_ = float(np.log(np.maximum(pairs["history_minutes"].to_numpy(float), 1.0)).mean())
-        X = self._design(pairs)
-        self.x_mean_, self.x_scale_ = X.mean(axis=0), X.std(axis=0)
-        self.x_scale_[self.x_scale_ == 0] = 1.0
         y = pairs["next_role"].to_numpy()
-        counts = np.array([(y == r).sum() for r in self.role_ids_], float)
-        self.base_rates_ = (counts + 1) / (counts.sum() + len(counts))
+        known = np.isin(y, self.role_ids_)
+        pairs, y = pairs[known].reset_index(drop=True), y[known]
+        X = self._design(pairs)
+        # everything but "stays" is pulled toward zero: with no evidence the outlook is
+        # "same role as last season" at the data's stay rate
+        penalised = np.r_[False, np.ones(X.shape[2] - 1, bool)]
+        target = np.array([self.role_ids_.index(r) for r in y], int)
+        self.coef_ = fit_choice(X, target, penalised=penalised, penalty=self.penalty)
         self.stay_rates_ = {r: float((y[pairs["role"].to_numpy() == r] == r).mean())
                             for r in self.role_ids_ if (pairs["role"] == r).any()}
-        self.classes_ = sorted(set(y))
-        self.regression_ = None
-        if len(self.classes_) > 1:
-            self.regression_ = LogisticRegression(C=self.C, max_iter=2000).fit(
-                (X - self.x_mean_) / self.x_scale_, y)
         self._fit_position(pairs)
         return self
 
@@ -202,22 +224,10 @@ class RoleOutlook:
 
     def predict_proba(self, history):
         """Role probabilities, shape (n, k) in ``role_ids_`` order, for history rows."""
-        import numpy as np
+        from .choice import choice_proba
 
         self._check()
-        n, k = len(history), len(self.role_ids_)
-        if self.regression_ is None:
-            raw = np.zeros((n, k))
-            raw[:, self.role_ids_.index(self.classes_[0])] = 1.0
-        else:
-            X = (self._design(history) - self.x_mean_) / self.x_scale_
-            got = self.regression_.predict_proba(X)
-            raw = np.zeros((n, k))
-            for j, c in enumerate(self.regression_.classes_):
-                raw[:, self.role_ids_.index(c)] = got[:, j]
-        # a role never seen as a next season still gets its smoothed base rate's share
-        floor = k / (self.n_pairs_ + k)
-        return (1 - floor) * raw + floor * self.base_rates_[None]
+        return choice_proba(self._design(history), self.coef_)
 
     def predict_position(self, history):
         """Expected component scores next season (n, q) and each row's spread (n,)."""
@@ -264,7 +274,7 @@ class RoleOutlook:
         return out.sort_values(["change_prob", "player_id"], ascending=[False, True]).reset_index(drop=True)
 
 
-def season_outlook(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
+def season_outlook(placements, model, *, decay=0.5, penalty=10.0, min_pairs=30):
     """The outlook for the season after the latest, and its backtest, as a run makes them.
 
     Returns
@@ -278,5 +288,6 @@ def season_outlook(placements, model, *, decay=0.5, C=0.3, min_pairs=30):
     h = history_table(placements, decay=decay)
     if int(h["next_role"].notna().sum()) < min_pairs:
         return None, None
-    fitted = RoleOutlook(decay=decay, C=C, min_pairs=min_pairs).fit(h, model)
-    return fitted.outlook(placements), backtest(placements, model, decay=decay, C=C, min_pairs=min_pairs)
+    fitted = RoleOutlook(decay=decay, penalty=penalty, min_pairs=min_pairs).fit(h, model)
+    return fitted.outlook(placements), backtest(placements, model, decay=decay, penalty=penalty,
+                                                min_pairs=min_pairs)

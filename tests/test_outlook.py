@@ -78,7 +78,10 @@ def test_backtest_beats_the_naive_forecast_on_a_league_with_between_players():
     scores = result.seasons.set_index("season")
     assert not scores.loc["2011", "scored"]  # no earlier pairs to learn from
     assert scores.loc["all", "log_loss"] < scores.loc["all", "naive_log_loss"]
-    assert result.calibration["n"].sum() == 2 * scores.loc["all", "n_test"]
+    bins = result.calibration[result.calibration["kind"] == "role chance"]
+    assert bins["n"].sum() == 2 * scores.loc["all", "n_test"]
+    deciles = result.calibration[result.calibration["kind"] == "change decile"]
+    assert deciles["n"].sum() == scores.loc["all", "n_test"] and len(deciles) == 10
 
 
 def test_scores_match_scikit_learn():
@@ -120,8 +123,9 @@ def test_demo_run_outlook_and_backtest(demo_analysis):
     print(f"\ndemo backtest: log loss {allrow['log_loss']:.3f} (naive {allrow['naive_log_loss']:.3f}), "
           f"Brier {allrow['brier']:.3f} (naive {allrow['naive_brier']:.3f})")
     assert allrow["log_loss"] < allrow["naive_log_loss"]
-    judged = bt.calibration[bt.calibration["n"] >= 100]
-    assert (judged["gap"].abs() <= 0.05).all()
+    deciles = bt.calibration[bt.calibration["kind"] == "change decile"]
+    print("demo change deciles, largest gap:", round(float(deciles["gap"].abs().max()), 3))
+    assert (deciles["gap"].abs() <= 0.08).all()  # ~113 players a decile: binomial sd up to 3.4 points
 
 
 def test_report_shows_the_outlook_and_its_backtest(demo_analysis):

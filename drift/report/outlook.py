@@ -44,9 +44,10 @@ def build_outlook(analysis, b) -> dict:
         backtest_note = (
             f"Refitted on the seasons before each season and scored on what drift placed that season "
             f"({int(a['n_test'])} returning players in all), the outlook's log loss is {a['log_loss']:.3f} "
-            f"against {a['naive_log_loss']:.3f} for \"same role as last season\" at its best constant "
-            f"confidence ({verdict}); Brier score {a['brier']:.3f} against {a['naive_brier']:.3f}. "
-            "Lower is better for both. The calibration table pools every player-and-role probability.")
+            f"against {a['naive_log_loss']:.3f} for \"same role as last season\" with the stay rate of "
+            f"the same earlier seasons as its confidence ({verdict}; {a['oracle_log_loss']:.3f} with the "
+            f"stay rate of the season scored, which no forecast knows in advance); Brier score "
+            f"{a['brier']:.3f} against {a['naive_brier']:.3f}. Lower is better for both.")
     else:
         backtest_note = "No season has enough earlier returning players to be scored."
     return {
