@@ -38,7 +38,7 @@ class Analysis:
     #: next-season outlook of every player placed in the latest season (columns:
     #: drift.outlook.OUTLOOK_COLUMNS, then prob_<role>, exp_pc<j>); None with too few returning players
     outlook: object = None
-    #: drift.outlook.Backtest (per-season scores and calibration table), or None
+    #: drift.backtest.Backtest (per-season scores and calibration tables), or None
     backtest: object = None
 
 
@@ -64,10 +64,11 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
 
+    from .backtest import season_outlook
     from .comparables import run_comparables
+    from .backtest import season_outlook
     from .moves import pair_moves, requested_pairs, stint_pairs
     from .noise import consecutive_pairs
-    from .outlook import season_outlook
     from .roledrift import role_drift
 
     config = config or Config()

@@ -16,7 +16,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 __all__ = ["Backtest", "backtest", "calibration_table", "change_deciles", "naive_proba", "scores",
-           "BACKTEST_COLUMNS"]
+           "BACKTEST_COLUMNS", "season_outlook"]
 
 
 @dataclass(frozen=True)
@@ -177,3 +177,22 @@ def calibration_table(prob, truth_idx, *, bins=10):
         rows.append({"kind": "role chance", "bin_low": b / bins, "bin_high": (b + 1) / bins, "n": m, "predicted": pred,
                      "observed": obs, "gap": obs - pred if m else np.nan})
     return pd.DataFrame(rows)
+
+
+def season_outlook(placements, model, *, decay=0.5, penalty=10.0, min_pairs=30):
+    """The outlook for the season after the latest, and its backtest, as a run makes them.
+
+    Returns
+    -------
+    (DataFrame or None, Backtest or None)
+        ``None`` when the data have fewer than ``min_pairs`` pairs of consecutive
+        placed seasons (nothing to learn year-to-year stability from).
+    """
+    from .outlook import RoleOutlook, history_table
+
+    h = history_table(placements, decay=decay)
+    if int(h["next_role"].notna().sum()) < min_pairs:
+        return None, None
+    fitted = RoleOutlook(decay=decay, penalty=penalty, min_pairs=min_pairs).fit(h, model)
+    return fitted.outlook(placements), backtest(placements, model, decay=decay, penalty=penalty,
+                                                min_pairs=min_pairs)

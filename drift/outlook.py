@@ -33,7 +33,7 @@ from __future__ import annotations
 
 from .errors import NotFittedError
 
-__all__ = ["RoleOutlook", "history_table", "OUTLOOK_COLUMNS", "season_outlook"]
+__all__ = ["RoleOutlook", "history_table", "OUTLOOK_COLUMNS"]
 
 #: outlook.csv columns before the per-role probabilities (see README, "Outlook")
 OUTLOOK_COLUMNS = ("player_id", "player", "season", "team", "minutes", "role", "projected_role",
@@ -272,22 +272,3 @@ class RoleOutlook:
         for j in range(expected.shape[1]):
             out[f"exp_pc{j + 1}"] = expected[:, j]
         return out.sort_values(["change_prob", "player_id"], ascending=[False, True]).reset_index(drop=True)
-
-
-def season_outlook(placements, model, *, decay=0.5, penalty=10.0, min_pairs=30):
-    """The outlook for the season after the latest, and its backtest, as a run makes them.
-
-    Returns
-    -------
-    (DataFrame or None, Backtest or None)
-        ``None`` when the data have fewer than ``min_pairs`` pairs of consecutive
-        placed seasons (nothing to learn year-to-year stability from).
-    """
-    from .backtest import backtest
-
-    h = history_table(placements, decay=decay)
-    if int(h["next_role"].notna().sum()) < min_pairs:
-        return None, None
-    fitted = RoleOutlook(decay=decay, penalty=penalty, min_pairs=min_pairs).fit(h, model)
-    return fitted.outlook(placements), backtest(placements, model, decay=decay, penalty=penalty,
-                                                min_pairs=min_pairs)
