@@ -11,9 +11,8 @@ latest role and the decayed minutes behind the summary.
   *and* that role, with weights shared by all roles: he stays (the role is his
   latest); how close his history summary and his latest season sit to the role's
   centre (minus log(1 + d^2 / 2 s^2), s^2 the pool's within-role variance), each
-  also times the log sample behind the history (how far to trust it); stays
-  times the log sample and times the log number of seasons; the role is the one
-  nearest his history, or the second nearest his latest season. Per role, the
+  also times the log sample behind the history (how far to trust it); the role
+  is the one nearest his history, or the second nearest his latest season. Per role, the
   role's pull and its own extra stay rate. Every weight except "stays" carries a
   ridge penalty (``penalty``, in players), so with little evidence the outlook is
   "same role as last season" at the data's stay rate, and role-by-role rates are
@@ -128,9 +127,10 @@ class RoleOutlook:
 
         Shared: stays (the role is his latest), closeness of the history and of the
         latest season to the role (minus log(1 + d^2 / 2 s^2), s^2 the within-role
-        variance), both times the log sample, stays times the log sample and times
-        the log number of seasons. Per role (penalised): the role's pull, and its
-        own extra stay rate.
+        variance), both also times the log sample; nearest to the history; second
+        nearest to the latest season. Per role: the role's pull, and its own extra
+        stay rate. (A stay weight growing with sample or seasons was tried: it made
+        the most stable players' chances of change too low on simulated leagues.)
         """
         import numpy as np
 
@@ -143,14 +143,13 @@ class RoleOutlook:
         k = len(self.role_ids_)
         stay = (h["role"].to_numpy()[:, None] == np.asarray(self.role_ids_)[None]).astype(float)
         size = (np.log(np.maximum(h["history_minutes"].to_numpy(float), 1.0)) - self.size_mean_)[:, None]
-        seasons = np.log(h["history_seasons"].to_numpy(float))[:, None]
         rows = np.arange(len(h))
         first_hist = np.zeros_like(stay)
         first_hist[rows, near_hist.argmax(axis=1)] = 1.0
         second_last = np.zeros_like(stay)
         second_last[rows, np.argsort(-near_last, axis=1)[:, 1 if k > 1 else 0]] = 1.0
-        shared = np.stack([stay, near_hist, near_last, near_hist * size, near_last * size, stay * size,
-                           stay * seasons, first_hist, second_last], axis=2)
+        shared = np.stack([stay, near_hist, near_last, near_hist * size, near_last * size, first_hist,
+                           second_last], axis=2)
         eye = np.broadcast_to(np.eye(k)[None], (len(h), k, k))
         return np.concatenate([shared, eye, stay[:, :, None] * eye], axis=2)
 

@@ -50,22 +50,24 @@ class _Profiles:
         return out
 
 
-_OUTLOOK_SHOWN = ("season", "projected_role", "projected_prob", "stay_prob", "change_prob", "history_seasons")
-
-
-def _outlooks(outlook):
-    """Player id -> his outlook table (its main columns when present) for every player in ``outlook``."""
+def _outlooks(outlook, model):
+    """Player id -> his outlook table: likeliest role, chance of keeping his role, the three
+    likeliest roles with their chances, and the position spread (the outlook's uncertainty)."""
     from .fmt import percent, sig
+    from .outlook import _probabilities
 
     if outlook is None or not len(outlook) or "player_id" not in outlook:
         return {}
-    shown = [c for c in _OUTLOOK_SHOWN if c in outlook] or [c for c in outlook if c not in ("player_id", "player")]
-    columns = [c.replace("_", " ") for c in shown]
+    names = dict(zip(model.role_ids_, model.role_names_))
+    columns = ["after season", "likeliest role", "keeps his role", "changes role", "chances",
+               "position spread", "seasons behind it"]
     out = {}
-    for pid, *rec in outlook[["player_id", *shown]].itertuples(index=False):
-        row = [percent(v, 2) if c.endswith("_prob") else sig(v, 3) if isinstance(v, float) else str(v)
-               for c, v in zip(shown, rec)]
-        out.setdefault(pid, {"columns": columns, "rows": []})["rows"].append(row)
+    for r in outlook.to_dict(orient="records"):
+        row = [str(r["season"]), f"{r['projected_role']} {names.get(r['projected_role'], '')}",
+               percent(r["stay_prob"], 2), percent(r["change_prob"], 2),
+               _probabilities(r, model.role_ids_, names), sig(r["position_spread"], 3),
+               str(int(r["history_seasons"]))]
+        out.setdefault(r["player_id"], {"columns": columns, "rows": []})["rows"].append(row)
     return out
 
 
@@ -119,7 +121,7 @@ def build_players(analysis, b) -> dict:
     paged = pl[pl["player_id"].isin(b.player_anchor)]
     moves = all_moves[all_moves["player_id"].isin(b.player_anchor)] if len(all_moves) else all_moves
     rows_by, into = _group(moves, b)
-    outlooks = _outlooks(getattr(analysis, "outlook", None))
+    outlooks = _outlooks(getattr(analysis, "outlook", None), model)
     comps = _comparables(analysis.comparables, b)
     cols = ["player_id", "player", "season", "team", "games", "minutes", "role", "role_prob", "out_of_reference"]
     cols += ["second_role"] if "second_role" in pl else []
