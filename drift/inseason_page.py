@@ -29,7 +29,8 @@ class InseasonContext:
     statuses : list of (status, meaning)
     groups : list of (status, rows)
         Formatted check rows per status (player, seasons, teams, traded, games,
-        minutes, roles, distance, noise, z, p, drivers, more_games), strongest evidence first.
+        minutes, roles, distance, noise, z, p (text, "<0.001" below that), drivers, more_games), strongest
+        evidence first.
     alpha : float
     season_games : int
     n_excluded : int
@@ -79,7 +80,8 @@ def build_page_context(checks, model, *, alpha, season_games, n_excluded) -> Ins
                  "games": int(r["games_to"]), "minutes": f"{r['minutes_from']:,.0f} / {r['minutes_to']:,.0f}",
                  "role_from": f"{r['role_from']} {role_names.get(r['role_from'], '')}",
                  "role_to": f"{r['role_to']} {role_names.get(r['role_to'], '')}",
-                 "distance": r["distance"], "noise": r["noise_distance"], "z": r["z"], "p": r["p_value"],
+                 "distance": r["distance"], "noise": r["noise_distance"], "z": r["z"],
+                 "p": "<0.001" if r["p_value"] < 0.001 else f"{r['p_value']:.3f}",
                  "drivers": _drivers(r, names),
                  "more_games": _more_games(r["games_to_conclusive"], r["games_to"], season_games)}
                 for r in block.to_dict(orient="records")]

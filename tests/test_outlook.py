@@ -138,3 +138,12 @@ def test_report_shows_the_outlook_and_its_backtest(demo_analysis):
     html = render_report(context)
     assert 'id="outlook"' in html and first["player"] in html
     assert "same role as last season" in context.backtest_note and "How the outlook fared" in html
+    # the player page carries the outlook with its uncertainty: keep/change chances and the likeliest roles
+    from drift.report.fmt import percent
+
+    page = next(p for p in context.players if p["outlook"])
+    row = page["outlook"]["rows"][0]
+    own = demo_analysis.outlook.set_index("player_id").loc[page["id"]]
+    assert row[2] == percent(own["stay_prob"]) and row[3] == percent(own["change_prob"])
+    assert own["projected_role"] in row[4]  # the likeliest roles with their chances
+    assert "Outlook for next season" in html and "position spread" in html
