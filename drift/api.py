@@ -66,7 +66,6 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
 
     from .backtest import season_outlook
     from .comparables import run_comparables
-    from .backtest import season_outlook
     from .moves import pair_moves, requested_pairs, stint_pairs
     from .noise import consecutive_pairs
     from .roledrift import role_drift
