@@ -13,7 +13,7 @@ from pathlib import Path
 from .config import Config
 from .errors import InputError
 from .placing import check_files, place_files
-from .preflight import check_regular, check_settings
+from .preflight import check_distinct, check_regular, check_settings
 from .preparing import Prepared, _as_list, prepare, reference_pool
 from .progress import stages
 from .threads import thread_limited
@@ -147,6 +147,7 @@ def check(data, config: Config | None = None):
     """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.datacheck.DataCheck`."""
     from .datacheck import check_data
     check_regular(_as_list(data))
+    check_distinct(_as_list(data))
     return check_data(lambda: prepare(data, config), config or Config(), check_settings)
 
 
@@ -185,6 +186,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     st = stages(progress)
     guarded = [*_as_list(data), previous, *inputs]
     check_regular(guarded)
+    check_distinct(_as_list(data))
     check_output_folder(out, inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config, progress=st)

@@ -253,9 +253,8 @@ def _demo(args):
     from .demo import generate_league, write_league
     from .outputs import atomic_folder
 
-    league = generate_league(args.seed, partial_games=args.partial_games)
-    with atomic_folder(args.out) as tmp:  # never over a folder of real seasons
-        files = write_league(tmp, league)
+    with atomic_folder(args.out) as tmp:  # checked first: never over a folder of real seasons
+        files = write_league(tmp, generate_league(args.seed, partial_games=args.partial_games))
     return f"drift: wrote {len(files)} season files and the truth to {args.out}"
 
 

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from .config import Config
-from .preflight import check_regular
+from .preflight import check_distinct, check_regular
 from .preparing import _as_list, prepare
 from .progress import stages
 from .threads import thread_limited
@@ -77,6 +77,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     excluded_path = out.with_name(f"{out.stem}_excluded.csv")
     guarded = [model_path, *_as_list(files), *inputs]
     check_regular(guarded)
+    check_distinct(_as_list(files))
     check_output_file(out, inputs=guarded)
     check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
     model = RoleModel.load(model_path)
@@ -141,6 +142,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
 
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_regular(guarded)
+    check_distinct([*_as_list(partial), *_as_list(against)])
     check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
     base = _model_config(model, config)

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from .errors import InputError
 
-__all__ = ["check_settings", "check_regular"]
+__all__ = ["check_settings", "check_regular", "check_distinct"]
 
 
 def check_settings(prepared, config) -> None:
@@ -62,3 +62,26 @@ def check_regular(paths) -> None:
         if not (stat.S_ISDIR(mode) or stat.S_ISREG(mode)):
             raise InputError("is not a regular file or folder (a pipe, socket or device); give a file",
                              file=path)
+
+
+def check_distinct(paths) -> None:
+    """Refuse data given twice: the same path, or a file and the folder that holds it.
+
+    Read twice, every row would be a duplicate of itself, and the message about it would
+    point at rows that look different.
+    """
+    import os
+    from pathlib import Path
+
+    seen = {}
+    for given in paths:
+        real = Path(os.path.realpath(given))
+        if real in seen:
+            raise InputError(f"is given twice (also as {seen[real]}); give each file or folder once",
+                             file=given)
+        seen[real] = given
+    folders = {real: given for real, given in seen.items() if real.is_dir()}
+    for real, given in seen.items():
+        if real.parent in folders and real not in folders:
+            raise InputError(f"is also read as part of the folder {folders[real.parent]}; give the file "
+                             "or its folder, not both", file=given)
