@@ -119,8 +119,10 @@ def _robust_line(x, d, *, n_bins=10):
     """
     import numpy as np
 
+    from scipy.stats import median_abs_deviation
+
     def robust_var(v):
-        return float((_MAD_TO_SD * np.median(np.abs(v - np.median(v)))) ** 2) if len(v) else 0.0
+        return float((_MAD_TO_SD * median_abs_deviation(v)) ** 2) if len(v) else 0.0
 
     if len(x) < 20 or np.ptp(x) == 0:
         return robust_var(d), 0.0

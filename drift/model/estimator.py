@@ -202,10 +202,10 @@ class RoleModel(FittingSteps, FileMethods):
 
     def distances(self, scores):
         """Euclidean distances to every role, shape (n, k)."""
-        import numpy as np
+        from scipy.spatial.distance import cdist
 
         self._check_fitted()
-        return np.sqrt(((scores[:, None, :] - self.centroids_[None]) ** 2).sum(axis=2))
+        return cdist(scores, self.centroids_)
 
     def memberships(self, distances):
         """Membership probabilities (n, k) from distances to the roles.

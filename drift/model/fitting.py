@@ -46,12 +46,14 @@ class FittingSteps:
     def _fit_scaler(self, processed):
         """Standardise on the pool and weight by reliability; returns the pool's z, (n, p)."""
         import numpy as np
+        from sklearn.preprocessing import StandardScaler
 
         from ..features import safe_scale
 
-        self.scaler_mean_ = processed.mean(axis=0)
+        scaler = StandardScaler().fit(processed)
+        self.scaler_mean_ = scaler.mean_
         # a feature shrunk flat (all noise) carries nothing: unit scale keeps it harmless
-        self.scaler_scale_ = safe_scale(processed.std(axis=0), self.scaler_mean_)
+        self.scaler_scale_ = safe_scale(scaler.scale_, scaler.mean_)
         if self.noise_policy in ("weight", "shrink+weight"):
             r = self.noise_["year_to_year_r"].fillna(self.noise_["signal_share"]).to_numpy(float)
             self.weights_ = np.sqrt(np.clip(r, 0.05, 1.0))
@@ -63,17 +65,21 @@ class FittingSteps:
         """Principal components with the sign rule; returns the pool's scores, (n, q)."""
         import numpy as np
 
+        from sklearn.decomposition import PCA
+
         from ..workload import select_components
 
         q, self.component_diagnostics_ = select_components(
             z, self.components, variance_threshold=self.variance_threshold, seed=self.seed)
-        self.pca_mean_ = z.mean(axis=0)
-        _, s, vt = np.linalg.svd(z - self.pca_mean_, full_matrices=False)
-        # sign convention: each component's largest-magnitude loading is positive
+        pca = PCA(svd_solver="full").fit(z)  # every component: the ratios are of the total
+        self.pca_mean_ = pca.mean_
+        # sign convention: each component's largest-magnitude loading is positive (recent
+        # scikit-learn flips signs the same way; applied here so every version agrees)
+        vt = pca.components_
         signs = np.sign(vt[np.arange(len(vt)), np.argmax(np.abs(vt), axis=1)])
         vt = vt * signs[:, None]
-        self.components_ = vt[:q]
-        ev = s ** 2 / len(z)
+        self.components_ = np.ascontiguousarray(vt[:q])  # the layout a loaded model has
+        ev = pca.singular_values_ ** 2 / len(z)
         self.explained_variance_ratio_ = (ev / ev.sum())[:q]
         return (z - self.pca_mean_) @ self.components_.T
 
