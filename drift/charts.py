@@ -17,7 +17,7 @@ ROLE_COLOURS = ("#1f5f8b", "#e0892b", "#67b3dc", "#9c4f8b", "#2f9576", "#d3be3c"
 STATUS_COLOURS = {"changed": "#c2561c", "unsettled": "#d3be3c", "shifted": "#1f5f8b",
                   "steady": "#b9bec2"}
 #: Most points a scatter chart draws; larger tables are sampled (seeded) and the chart says so.
-MAX_POINTS = 4000
+MAX_POINTS = 3000
 
 
 #: matplotlib settings for drift's charts, applied only inside ``rc_context`` while a chart is

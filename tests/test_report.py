@@ -202,3 +202,24 @@ def test_data_section_says_how_each_column_was_read(page):
     assert "How the columns were read" in page.body
     assert "share_isolation share isolation fraction 6 name pattern 'share_<type>'" in page.body
     assert "usage_pct rate percent 6" in page.body
+
+
+def test_caps_keep_a_large_league_bounded(demo_analysis, monkeypatch):
+    """With the limits lowered, the demo league behaves as a large one: pages, rows and links stay bounded."""
+    from drift.report import context as ctx
+    from drift.report import moves as mv
+    from drift.report import outlook as ol
+
+    monkeypatch.setattr(ctx, "MAX_PLAYER_PAGES", 40)
+    monkeypatch.setattr(ol, "OUTLOOK_MAX", 30)
+    monkeypatch.setattr(mv, "MAX_ROWS", 30)
+    monkeypatch.setattr(mv, "TEAM_ROWS", 5)
+    small = build_context(demo_analysis)
+    assert len(small.players) == len(small.player_index) == 40 and "40" in small.player_pages_note
+    assert len(small.latest_moves) == 30 and "moves.csv" in small.latest_note
+    assert len(small.outlook) <= 30
+    assert all(len(t["changed"]) <= 5 and len(t["trades"]) <= 5 for t in small.teams)
+    html = render_report(small)
+    page = _Page()
+    page.feed(html)
+    assert set(re.findall(r'href="#([^"]+)"', html)) <= page.ids  # names without a page are plain text

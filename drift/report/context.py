@@ -21,7 +21,7 @@ CAUTIONS = (
 
 
 #: Most player pages one report carries; above it pages go to the players the front page needs.
-MAX_PLAYER_PAGES = 1000
+MAX_PLAYER_PAGES = 600
 
 
 @dataclass(frozen=True)
@@ -79,7 +79,7 @@ def _comparable_text(comparables, n=3):
     return text.groupby([top["player_id"], top["season"]]).agg(", ".join).to_dict()
 
 
-def paged_players(analysis, consecutive, latest_pair, limit=MAX_PLAYER_PAGES):
+def paged_players(analysis, consecutive, latest_pair, limit=None):
     """Player ids that get a page: all placed players, or on large leagues the ones the outputs need.
 
     Above ``limit`` players, pages go (strongest evidence first, up to ``limit``) to players with a
@@ -88,6 +88,7 @@ def paged_players(analysis, consecutive, latest_pair, limit=MAX_PLAYER_PAGES):
     """
     import pandas as pd
 
+    limit = MAX_PLAYER_PAGES if limit is None else limit
     players = pd.unique(analysis.placements["player_id"])
     if len(players) <= limit:
         return list(players)
@@ -173,8 +174,8 @@ class ReportContext:
     teams : list of dict
         One team page each: ``anchor, team``, ``mix`` (per season, latest first: season,
         players, roles with share and text), ``movement`` (per pair: pair, arrivals,
-        departures; each player, anchor, other, role, status, words), ``trades`` and
-        ``changed`` (move rows).
+        departures, note; each player, anchor, other, role, status, words), ``trades`` and
+        ``changed`` (move rows) with ``trades_note`` and ``changed_note`` (set when cut).
     team_index : list of dict
         anchor, team, players (latest season), changed (latest pair), arrivals.
     roles : list of dict

@@ -6,11 +6,21 @@ attributes the page's filters read (team, role, season pair, status, traded).
 
 from __future__ import annotations
 
-__all__ = ["MAX_ROWS", "pair_label", "move_rows", "capped", "build_method_moves", "STATUS_ORDER"]
+__all__ = ["MAX_ROWS", "TEAM_ROWS", "pair_label", "move_rows", "capped", "build_method_moves", "STATUS_ORDER"]
 
 #: Longest table printed in full; longer ones show their strongest rows and point to the CSV.
-MAX_ROWS = 400
+MAX_ROWS = 250
+#: Longest table on a team page (a team page is one of many).
+TEAM_ROWS = 20
 STATUS_ORDER = {"changed": 0, "unsettled": 1, "shifted": 2, "steady": 3}
+
+
+def _stint(n):
+    """Stint numbers arrive as floats from a table with gaps: print 2, not 2.0."""
+    try:
+        return str(int(n))
+    except (TypeError, ValueError):
+        return str(n or "")
 
 
 def pair_label(row, season_index) -> tuple[str, str]:
@@ -18,7 +28,7 @@ def pair_label(row, season_index) -> tuple[str, str]:
     a, b = str(row["season_from"]), str(row["season_to"])
     kind = row.get("kind", "consecutive")
     if kind == "stint":
-        return f"{a} stint {row.get('stint_from', '')} → {row.get('stint_to', '')}", "mid-season trade"
+        return f"{a} stint {_stint(row.get('stint_from'))} → {_stint(row.get('stint_to'))}", "mid-season trade"
     if kind == "requested":
         return f"{a} → {b}", "requested comparison"
     gap = season_index.get(b, 0) - season_index.get(a, 0)
@@ -81,9 +91,11 @@ def strongest_first(moves):
     return moves.assign(_o=order).sort_values(["_o", "p_value"], kind="stable").drop(columns="_o")
 
 
-def capped(moves, b, *, limit=MAX_ROWS, csv="moves.csv", comps=True):
-    """(rows, note): at most ``limit`` rows, strongest first, and a sentence naming the CSV when cut."""
-    ordered = strongest_first(moves)
+def capped(moves, b, *, limit=None, csv="moves.csv", comps=True, order=True):
+    """(rows, note): at most ``limit`` (default :data:`MAX_ROWS`) rows, strongest first unless
+    ``order`` is False, and a sentence naming the CSV when the table was cut."""
+    limit = MAX_ROWS if limit is None else limit
+    ordered = strongest_first(moves) if order else moves
     note = ""
     if len(ordered) > limit:
         note = (f"Showing the {limit:,} strongest of {len(ordered):,} rows; every row is in {csv}.")

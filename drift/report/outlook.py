@@ -4,6 +4,8 @@ from __future__ import annotations
 
 #: players listed open in the outlook table (most likely to change role first)
 OUTLOOK_SHOWN = 25
+#: most players the page lists (likeliest changes first); outlook.csv has every one
+OUTLOOK_MAX = 400
 
 
 def _probabilities(row, role_ids, names, n=3):
@@ -30,6 +32,7 @@ def outlook_rows(outlook, model):
 
 def build_outlook(analysis, b) -> dict:
     """Context fields ``outlook``, ``outlook_note``, ``backtest``, ``calibration``, ``backtest_note``."""
+
     if analysis.outlook is None:
         return {"outlook": [], "outlook_note": "Too few returning players to learn year-to-year "
                 "role stability from (30 pairs of consecutive seasons are needed).",
@@ -51,7 +54,9 @@ def build_outlook(analysis, b) -> dict:
     else:
         backtest_note = "No season has enough earlier returning players to be scored."
     return {
-        "outlook": [{**r, "anchor": b.player_anchor.get(r["player_id"], "")} for r in outlook_rows(out, analysis.model)],
+        # a bounded page: the likeliest changes first, the rest in outlook.csv
+        "outlook": [{**r, "anchor": b.player_anchor.get(r["player_id"], "")}
+                    for r in outlook_rows(out.head(OUTLOOK_MAX), analysis.model)],
         "outlook_note": (
             f"For the {len(out)} players placed in {latest}: the chance of each role next season, learned "
             "from how often this data's returning players kept or changed role (by role, by how close "

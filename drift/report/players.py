@@ -76,7 +76,8 @@ def _comparables(comps, b, n=5):
     if comps is None or not len(comps):
         return {}
     out = {}
-    for r in comps[comps["rank"] <= n].to_dict(orient="records"):
+    wanted = comps[(comps["rank"] <= n) & comps["player_id"].isin(b.player_anchor)]
+    for r in wanted.to_dict(orient="records"):
         out.setdefault((r["player_id"], r["season"]), []).append({
             "player": r["comp_player"], "anchor": b.player_anchor.get(r["comp_player_id"], ""),
             "season": r["comp_season"], "team": r["comp_team"],

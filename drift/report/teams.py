@@ -72,7 +72,9 @@ def _movement(by_season, team, s0, s1, b, moves_by):
 
 def build_teams(analysis, b) -> dict:
     """The team pages and the teams' index."""
-    from .moves import move_rows, strongest_first
+    from . import moves as mv
+    from .fmt import strength
+    from .moves import capped
 
     pl = analysis.placements.copy()
     for col in ("team_first", "team_last"):
@@ -89,9 +91,11 @@ def build_teams(analysis, b) -> dict:
                                                                  changed_all.get("team_to", []))]
     mix_by = {t: block for t, block in minutes.groupby("team", sort=False)}
     cons = b.consecutive
-    formatted = move_rows(cons, b, comps=False) if len(cons) else []
-    moves_by = {(r.player_id, r.season_from, r.season_to): f
-                for r, f in zip(cons[["player_id", "season_from", "season_to"]].itertuples(index=False), formatted)}
+    # status and words only (formatting every move of a large league would cost more than the page)
+    moves_by = {(r.player_id, r.season_from, r.season_to): {"status": r.status,
+                                                            "words": strength(r.p_value, r.z, b.alpha)}
+                for r in cons[["player_id", "season_from", "season_to", "status", "p_value", "z"]].itertuples(index=False)} \
+        if len(cons) else {}
     stints = analysis.stints
     pages, index = [], []
     for team, anchor in b.team_anchor.items():
@@ -102,17 +106,23 @@ def build_teams(analysis, b) -> dict:
         for s0, s1 in zip(b.seasons[:-1], b.seasons[1:]):
             if s0 in seasons or s1 in seasons:
                 arrivals, departures = _movement(by_season, team, s0, s1, b, moves_by)
-                movement.append({"pair": f"{s0} → {s1}", "arrivals": arrivals, "departures": departures})
+                cut = max(len(arrivals), len(departures)) > mv.TEAM_ROWS
+                movement.append({"pair": f"{s0} → {s1}", "arrivals": arrivals[:mv.TEAM_ROWS],
+                                  "departures": departures[:mv.TEAM_ROWS],
+                                  "note": (f"{len(arrivals):,} arrivals and {len(departures):,} departures; the first "
+                                           f"{mv.TEAM_ROWS} of each are listed (placements.csv has them all).")
+                                  if cut else ""})
         movement.reverse()  # latest first
         trades = stints[(stints["team_from"].astype(str) == team) | (stints["team_to"].astype(str) == team)] \
             if len(stints) else stints
         changed = changed_all[[team in ts for ts in changed_teams]] if len(changed_all) else changed_all
-        pages.append({
-            "anchor": anchor, "team": team, "mix": mix[::-1], "movement": movement,
-            "trades": move_rows(strongest_first(trades), b, comps=False) if len(trades) else [],
-            "changed": move_rows(changed.sort_values("season_to", ascending=False, kind="stable"), b, comps=False)
-            if len(changed) else [],
-        })
+        trade_rows, trade_note = capped(trades, b, limit=mv.TEAM_ROWS, csv="stints.csv", comps=False)
+        changed_rows, changed_note = capped(changed.sort_values("season_to", ascending=False, kind="stable")
+                                            if len(changed) else changed, b, limit=mv.TEAM_ROWS, comps=False,
+                                            order=False)
+        pages.append({"anchor": anchor, "team": team, "mix": mix[::-1], "movement": movement,
+                      "trades": trade_rows, "trades_note": trade_note,
+                      "changed": changed_rows, "changed_note": changed_note})
         latest = mix[-1] if mix and mix[-1]["season"] == b.seasons[-1] else None
         index.append({"anchor": anchor, "team": team, "players": latest["players"] if latest else 0,
                       "changed": sum(1 for m in pages[-1]["changed"] if m["pair"].endswith(b.seasons[-1])),
