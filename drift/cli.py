@@ -227,8 +227,10 @@ def _check_data(args):
     from .datacheck import format_check
     from .errors import InputError
 
+    from .messages import printable
+
     result = check(args.data, _config(args))
-    print(format_check(result))
+    print("\n".join(printable(line) for line in format_check(result).splitlines()))  # names are the user's
     if not result.ok:
         raise InputError("a run would not work: " + "; ".join(result.problems))
     return "drift: check passed; `drift run` with these files and this config would work"

@@ -97,6 +97,8 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
         With the reason and the fix.
     """
     out = _abs(out)
+    if out.parent == out:
+        raise InputError("--out cannot be the root of the file system; give a folder", file=out)
     check_inputs(out, inputs)
     _check_parent(out, "--out")
     clean_litter(out)

@@ -201,6 +201,7 @@ RUN_CASES = [
          r"is the input"),
     Case("out is the previous model", lambda w, t: ["run", str(w.folder), "--previous", str(w.model),
                                                     "--out", str(w.model)], r"is the input"),
+    Case("out is the root folder", lambda w, t: ["run", str(w.folder), "--out", "/"], r"root of the file system"),
     Case("out is a file", lambda w, t: ["run", str(w.folder), "--out", str(_file(t, "x", "mine"))],
          r"exists and is a file"),
     Case("out under a file", lambda w, t: ["run", str(w.folder), "--out", str(_file(t, "x", "m") / "o")],
