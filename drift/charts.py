@@ -6,6 +6,8 @@ deterministic (fixed hash salt, no date metadata) so a re-run gives the same byt
 
 from __future__ import annotations
 
+from .constants import STABLE_JACCARD
+
 __all__ = ["components_chart", "roles_chart", "role_map_chart", "drift_chart", "moves_chart",
            "reliability_chart", "ROLE_COLOURS", "STATUS_COLOURS", "MAX_POINTS", "sample_rows"]
 
@@ -111,7 +113,7 @@ def roles_chart(diag) -> str:
         else:
             ax.plot(diag["k"], diag[col], color="#1f5f8b", marker="o", ms=3)
         if col == "stability_min":
-            ax.axhline(0.6, color="#e0892b", lw=1, ls=":")
+            ax.axhline(STABLE_JACCARD, color="#e0892b", lw=1, ls=":")
         if len(chosen):
             ax.axvline(chosen.iloc[0], color="#333", ls="--", lw=1)
         ax.set_title(title, fontsize=9)

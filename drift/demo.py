@@ -215,6 +215,30 @@ def _midseason_trade(rng, t, p, tier, rosters, last_team, rows, truth, season, s
     last_team[p.pid] = dest
 
 
+def _team_season(rng, t, roster, season, s_index, rows, truth, last_team, *, midseason_rate,
+                 partial_games):
+    """One team's season rows; returns the players traded mid-season (played in two stints)."""
+    midseason = []
+    order = rng.permutation(len(roster))
+    for rank, i in enumerate(order):
+        p = roster[i]
+        tier = 0 if rank < 5 else 1 if rank < 11 else 2
+        games, minutes = _minutes_for(tier, rng)
+        changed = bool(getattr(p, "changed", False))
+        if rng.random() < midseason_rate and games >= 30 and partial_games is None:
+            midseason.append((t, p, tier))
+            continue
+        if partial_games is not None and games > partial_games:
+            games, minutes = partial_games, minutes * partial_games / games
+        rows.append({"player_id": p.pid, "player": p.name, "team": t, "season": season,
+                     **_observe(p, games, minutes, rng, s_index)})
+        truth.append({"player_id": p.pid, "season": season, "team": t, "stint": 0,
+                      "true_role": p.role, "changed": changed, "between": p.between,
+                      "changed_midseason": False})
+        last_team[p.pid] = t
+    return midseason
+
+
 def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, roster: int = 20,
                     change_rate: float = 0.06, trade_rate: float = 0.12,
                     midseason_rate: float = 0.04, between_rate: float = 0.15,
@@ -273,24 +297,10 @@ def generate_league(seed: int = 2024, *, seasons=SEASONS, n_teams: int = 20, ros
                        change_rate=change_rate)
         last_team = {}
         midseason = []
+        partial = partial_games if season == partial_season else None
         for t in teams:
-            order = rng.permutation(len(rosters[t]))
-            for rank, i in enumerate(order):
-                p = rosters[t][i]
-                tier = 0 if rank < 5 else 1 if rank < 11 else 2
-                games, minutes = _minutes_for(tier, rng)
-                changed = bool(getattr(p, "changed", False))
-                if rng.random() < midseason_rate and games >= 30 and season != partial_season:
-                    midseason.append((t, p, tier))
-                    continue
-                if season == partial_season and games > partial_games:
-                    games, minutes = partial_games, minutes * partial_games / games
-                rows.append({"player_id": p.pid, "player": p.name, "team": t, "season": season,
-                             **_observe(p, games, minutes, rng, s_index)})
-                truth.append({"player_id": p.pid, "season": season, "team": t, "stint": 0,
-                              "true_role": p.role, "changed": changed, "between": p.between,
-                              "changed_midseason": False})
-                last_team[p.pid] = t
+            midseason += _team_season(rng, t, rosters[t], season, s_index, rows, truth, last_team,
+                                      midseason_rate=midseason_rate, partial_games=partial)
         for t, p, tier in midseason:
             _midseason_trade(rng, t, p, tier, rosters, last_team, rows, truth, season, s_index)
         for t in teams:  # trades leave uneven rosters; trim the longest back to size

@@ -10,6 +10,7 @@ Pipeline (all constants learned on the pool only):
 
 from __future__ import annotations
 
+from ..constants import KMEANS_RESTARTS
 from ..errors import ModelFileError, NotFittedError
 from .fileformat import FileMethods
 from .fitting import FittingSteps
@@ -85,7 +86,7 @@ class RoleModel(FittingSteps, FileMethods):
     """
 
     def __init__(self, *, components="parallel", variance_threshold=0.8, roles="auto",
-                 max_roles=10, noise_policy="shrink", seed=0, n_init=10, n_bootstrap=20,
+                 max_roles=10, noise_policy="shrink", seed=0, n_init=KMEANS_RESTARTS, n_bootstrap=20,
                  role_names=None):
         self.components = components
         self.variance_threshold = variance_threshold
