@@ -21,6 +21,8 @@ __all__ = ["pair_moves", "requested_pairs", "stint_pairs",
            "MOVE_STATUSES"]
 
 MOVE_STATUSES = ("changed", "unsettled", "shifted", "steady")
+#: pairs whose null covariance (block x q x q) is held in memory at once
+BLOCK = 16_384
 
 
 def requested_pairs(seasons, season_a: str, season_b: str):
@@ -78,8 +80,7 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     q = scores.shape[1]
     delta = scores[second] - scores[first]
     distance = np.sqrt((delta ** 2).sum(axis=1))
-    null = model.move_null(noise_var.take(first), noise_var.take(second))  # once per pair table
-    d2 = null.statistic(delta)
+    d2, noise_distance = _null_in_blocks(model, noise_var, first, second, delta)
     p = chi2.sf(d2, q)
     z = norm.isf(np.clip(p, 1e-300, 1.0))
     pl = placements.reset_index(drop=True)
@@ -96,7 +97,7 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     from_col = np.array([role_col[r] for r in role_from], int)
     out["prob_to_of_role_from"] = prob[second, from_col] if len(first) else []
     out["distance"] = distance
-    out["noise_distance"] = null.noise_distance()
+    out["noise_distance"] = noise_distance
     out["z"] = z
     out["p_value"] = p
     out["beyond_noise"] = p < alpha
@@ -111,6 +112,24 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     for j in range(q):
         out[f"move_pc{j + 1}"] = delta[:, j]
     return out
+
+
+def _null_in_blocks(model, noise_var, first, second, delta, *, block=None):
+    """Null statistic and noise distance of every pair, the null built once per block of pairs.
+
+    The null covariance of m pairs is an (m, q, q) array; built for :data:`BLOCK` pairs at a
+    time, memory stays bounded whatever m (each pair's figures depend on that pair only).
+    """
+    import numpy as np
+
+    block = block or BLOCK
+    d2, noise_distance = np.zeros(len(first)), np.zeros(len(first))
+    for start in range(0, len(first), block):
+        part = slice(start, start + block)
+        null = model.move_null(noise_var.take(first[part]), noise_var.take(second[part]))
+        d2[part] = null.statistic(delta[part])
+        noise_distance[part] = null.noise_distance()
+    return d2, noise_distance
 
 
 def _pair_identity(table, first, second, kind):
