@@ -49,7 +49,7 @@ def _fixed(rule) -> bool:
 
 
 def select_components(z, rule, *, variance_threshold: float = 0.8, seed: int = 0,
-                      max_rows: int = COMPONENT_ROWS):
+                      max_rows: int | None = None):
     """Component count and per-count diagnostics, doing only what ``rule`` needs.
 
     Parameters
@@ -71,7 +71,7 @@ def select_components(z, rule, *, variance_threshold: float = 0.8, seed: int = 0
     from .selection import choose_components, elbow_count, variance_count
 
     if not _fixed(rule):
-        idx = subsample(len(z), max_rows, seed)
+        idx = subsample(len(z), max_rows or COMPONENT_ROWS, seed)
         return choose_components(z if idx is None else z[idx], rule,
                                  variance_threshold=variance_threshold, seed=seed)
     # eigenvalues from the p x p covariance: one pass over the rows, no SVD of the pool
@@ -92,7 +92,7 @@ def select_components(z, rule, *, variance_threshold: float = 0.8, seed: int = 0
     return n, diag
 
 
-def fit_kmeans(x, k: int, *, seed: int = 0, n_init: int = 10, max_rows: int = KMEANS_ROWS):
+def fit_kmeans(x, k: int, *, seed: int = 0, n_init: int = 10, max_rows: int | None = None):
     """K-means with ``n_init`` restarts; on a large pool the restarts run on a sample.
 
     At or below ``max_rows`` rows this is ``KMeans(k, n_init=n_init,
@@ -101,7 +101,7 @@ def fit_kmeans(x, k: int, *, seed: int = 0, n_init: int = 10, max_rows: int = KM
     """
     from sklearn.cluster import KMeans
 
-    idx = subsample(len(x), max_rows, seed)
+    idx = subsample(len(x), max_rows or KMEANS_ROWS, seed)
     if idx is None:
         return KMeans(n_clusters=k, n_init=n_init, random_state=seed).fit(x)
     start = KMeans(n_clusters=k, n_init=n_init, random_state=seed).fit(x[idx]).cluster_centers_
@@ -109,7 +109,7 @@ def fit_kmeans(x, k: int, *, seed: int = 0, n_init: int = 10, max_rows: int = KM
 
 
 def select_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 10,
-                 n_boot: int = 20, max_rows: int = ROLE_SWEEP_ROWS):
+                 n_boot: int = 20, max_rows: int | None = None):
     """Role count, diagnostics, stability and the final K-means, doing only what ``rule`` needs.
 
     Parameters
@@ -130,7 +130,7 @@ def select_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = 1
     from .selection import RoleChoice, choose_roles
 
     if not _fixed(rule):
-        idx = subsample(len(x), max_rows, seed)
+        idx = subsample(len(x), max_rows or ROLE_SWEEP_ROWS, seed)
         choice = choose_roles(x if idx is None else x[idx], rule, max_roles=max_roles, seed=seed,
                               n_init=n_init, n_boot=n_boot)
         if idx is None:
