@@ -98,7 +98,10 @@ def _carry(loadings, feature_var):
     """Covariance in component space, (m, q, q), of independent feature noise (m, p)."""
     import numpy as np
 
-    return np.einsum("qp,np,rp->nqr", loadings, feature_var, loadings)
+    # one matrix product: row n of feature_var times the outer products l_p l_p^T of the columns
+    q, p = loadings.shape
+    outer = (loadings.T[:, :, None] * loadings.T[:, None, :]).reshape(p, q * q)
+    return (np.asarray(feature_var) @ outer).reshape(-1, q, q)
 
 
 def fit_calibration(d2, raw_x, q: int) -> MoveCalibration:
