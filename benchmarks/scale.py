@@ -239,6 +239,17 @@ def markdown(results) -> str:
     return "\n".join(lines) + "\n"
 
 
+def help_seconds(repeats=5):
+    """Best wall time of ``python -m drift --help`` in a fresh process."""
+    env = dict(os.environ, PYTHONPATH=str(HERE.parent))
+    best = float("inf")
+    for _ in range(repeats):
+        mark = time.perf_counter()
+        subprocess.run([sys.executable, "-m", "drift", "--help"], capture_output=True, env=env, check=True)
+        best = min(best, time.perf_counter() - mark)
+    return best
+
+
 def main(argv=None):
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--rows", type=int, nargs="+", default=[1000, 10000, 100000])
@@ -262,9 +273,12 @@ def main(argv=None):
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     results = []
+    help_s = help_seconds()
+    print(f"drift --help: {help_s:.3f} s (best of 5, fresh processes)", flush=True)
     for rows in args.rows:
         for fmt in args.formats:
             res = measure(rows, fmt, auto=args.auto, place=not args.no_place)
+            res["help_s"] = help_s
             results.append(res)
             print(f"{rows:>9,} {fmt:8} bare {res['bare']['stages']['total']:7.1f} s  "
                   f"drift {res['drift']['stages']['total']:7.1f} s  peak {res['drift']['peak_mb']:.0f} MB",
