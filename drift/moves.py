@@ -21,8 +21,6 @@ __all__ = ["pair_moves", "requested_pairs", "stint_pairs",
            "MOVE_STATUSES"]
 
 MOVE_STATUSES = ("changed", "unsettled", "shifted", "steady")
-#: pairs whose null covariance (block x q x q) is held in memory at once
-BLOCK = 16_384
 
 
 def requested_pairs(seasons, season_a: str, season_b: str):
@@ -74,13 +72,15 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     import numpy as np
     from scipy.stats import chi2, norm
 
+    from .model.movenoise import null_in_blocks
+
     table = table.reset_index(drop=True)
     processed, noise_var = processed if processed is not None else model.processed(table)
     scores = model.scores_from_processed(processed)
     q = scores.shape[1]
     delta = scores[second] - scores[first]
     distance = np.sqrt((delta ** 2).sum(axis=1))
-    d2, noise_distance = _null_in_blocks(model, noise_var, first, second, delta)
+    d2, noise_distance = null_in_blocks(model.move_null, noise_var.take(first), noise_var.take(second), delta)
     p = chi2.sf(d2, q)
     z = norm.isf(np.clip(p, 1e-300, 1.0))
     pl = placements.reset_index(drop=True)
@@ -112,24 +112,6 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     for j in range(q):
         out[f"move_pc{j + 1}"] = delta[:, j]
     return out
-
-
-def _null_in_blocks(model, noise_var, first, second, delta, *, block=None):
-    """Null statistic and noise distance of every pair, the null built once per block of pairs.
-
-    The null covariance of m pairs is an (m, q, q) array; built for :data:`BLOCK` pairs at a
-    time, memory stays bounded whatever m (each pair's figures depend on that pair only).
-    """
-    import numpy as np
-
-    block = block or BLOCK
-    d2, noise_distance = np.zeros(len(first)), np.zeros(len(first))
-    for start in range(0, len(first), block):
-        part = slice(start, start + block)
-        null = model.move_null(noise_var.take(first[part]), noise_var.take(second[part]))
-        d2[part] = null.statistic(delta[part])
-        noise_distance[part] = null.noise_distance()
-    return d2, noise_distance
 
 
 def _pair_identity(table, first, second, kind):

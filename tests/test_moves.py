@@ -143,13 +143,13 @@ def test_stint_moves_against_truth(demo_analysis, demo_truth):
 
 def test_null_in_blocks_matches_one_block(demo_model, demo_prepared, monkeypatch):
     # memory stays bounded by building the null per block; the figures must not change
-    import drift.moves as moves_module
+    import drift.model.movenoise as movenoise
 
     kept = demo_prepared.kept
     i, j = consecutive_season_pairs(kept)
     placed = demo_model.place(kept)
     whole = pair_moves(demo_model, kept, placed, i, j)
-    monkeypatch.setattr(moves_module, "BLOCK", 37)
+    monkeypatch.setattr(movenoise, "BLOCK", 37)
     blocked = pair_moves(demo_model, kept, placed, i, j)
     assert len(i) > 37 * 3
     np.testing.assert_array_equal(whole["p_value"], blocked["p_value"])

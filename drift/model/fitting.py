@@ -124,13 +124,14 @@ class FittingSteps:
     def _calibrate_moves(self, pool, scores, state):
         """Fit the move-noise calibration on the pool's returning players (see :mod:`.movenoise`)."""
         from ..noise import consecutive_pairs
-        from .movenoise import MoveCalibration, MoveNull, fit_calibration
+        from .movenoise import MoveCalibration, MoveNull, fit_calibration, null_in_blocks
 
         i1, i2 = consecutive_pairs(pool)
         calibration = MoveCalibration()
         if len(i1) >= 30:
-            null = MoveNull.between(self.loadings(), self.noise_, state.take(i1), state.take(i2))
-            d2 = null.statistic(scores[i2] - scores[i1])
+            def null(nf, nt):
+                return MoveNull.between(self.loadings(), self.noise_, nf, nt)
+            d2, _ = null_in_blocks(null, state.take(i1), state.take(i2), scores[i2] - scores[i1])
             raw_x = 1 / state.base[i1] + 1 / state.base[i2]
             calibration = fit_calibration(d2, raw_x, scores.shape[1])
         self.noise_calibration_ = [calibration.a, calibration.b]

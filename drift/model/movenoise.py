@@ -17,7 +17,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["MoveCalibration", "MoveNull", "fit_calibration"]
+__all__ = ["MoveCalibration", "MoveNull", "fit_calibration", "null_in_blocks", "BLOCK"]
+
+#: pairs whose null covariance (block x q x q floats) is held in memory at once
+BLOCK = 16_384
 
 #: moves beyond this null quantile are left out of the calibration (clear movers)
 _CLEAR_MOVER = 0.999
@@ -92,6 +95,31 @@ class MoveNull:
         import numpy as np
 
         return np.sqrt(np.trace(self.cov, axis1=1, axis2=2))
+
+
+def null_in_blocks(make_null, noise_from, noise_to, delta, *, block=None):
+    """Statistic and noise distance of m moves, their null built one block of pairs at a time.
+
+    ``make_null(from_block, to_block)`` builds the :class:`MoveNull` of a block of
+    pairs (:class:`NoiseState` rows). The null of m pairs is an (m, q, q) array; in
+    blocks of :data:`BLOCK` pairs memory stays bounded whatever m, and each pair's
+    figures depend on that pair only, so they are the same as in one block.
+
+    Returns
+    -------
+    d2, noise_distance : arrays of shape (m,)
+    """
+    import numpy as np
+
+    block = block or BLOCK
+    m = len(delta)
+    d2, noise_distance = np.zeros(m), np.zeros(m)
+    for start in range(0, m, block):
+        part = np.arange(start, min(start + block, m))
+        null = make_null(noise_from.take(part), noise_to.take(part))
+        d2[part] = null.statistic(delta[part])
+        noise_distance[part] = null.noise_distance()
+    return d2, noise_distance
 
 
 def _carry(loadings, feature_var):
