@@ -51,10 +51,10 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
     import pandas as pd
     from scipy.optimize import linear_sum_assignment
     from scipy.spatial.distance import cdist
-    from sklearn.cluster import KMeans
 
     from .constants import KMEANS_RESTARTS
     from .features import safe_scale
+    from .workload import fit_kmeans  # restarts on a bounded sample for a very large season
 
     seasons = seasons.reset_index(drop=True)
     processed, _ = model.processed(seasons)
@@ -66,7 +66,7 @@ def role_drift(model, seasons, *, seed=0, min_rows_per_role=3):
         sel = (seasons["season"] == season).to_numpy()
         if sel.sum() < k * min_rows_per_role:
             continue
-        km = KMeans(n_clusters=k, n_init=KMEANS_RESTARTS, random_state=seed).fit(scores[sel])
+        km = fit_kmeans(scores[sel], k, seed=seed, n_init=KMEANS_RESTARTS)
         groups = [processed[sel][km.labels_ == g] for g in range(k)]
         cent = np.vstack([g.mean(axis=0) for g in groups])
         # the season centre's own sampling noise: a mean of n players
