@@ -96,6 +96,9 @@ def _with_trades(frame, rng, share=0.02):
         first[col] = np.maximum(1, np.round(first[col] * cut)).astype(int)
         second[col] = np.maximum(1, frame.loc[traded, col].to_numpy() - first[col].to_numpy())
     second["team"] = _labels("T{:02d}", 40)[rng.integers(30, 40, len(second))]
+    # the new team uses him a little differently: small changes in every rate and share
+    feats = [c for c in FEATURES if c in second.columns]
+    second[feats] = np.round(second[feats].to_numpy() * rng.uniform(0.9, 1.1, (len(second), len(feats))), 4)
     first["stint"], second["stint"] = 1, 2
     kept = frame[~traded].copy()
     kept["stint"] = 1

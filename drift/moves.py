@@ -82,7 +82,8 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     distance = np.sqrt((delta ** 2).sum(axis=1))
     d2, noise_distance = null_in_blocks(model.move_null, noise_var.take(first), noise_var.take(second), delta)
     p = chi2.sf(d2, q)
-    z = norm.isf(np.clip(p, 1e-300, 1.0))
+    # a move of exactly zero has p = 1: keep z finite (about -8.3) rather than minus infinity
+    z = norm.isf(np.clip(p, 1e-300, 1 - 1e-16))
     pl = placements.reset_index(drop=True)
     out = _pair_identity(table, first, second, kind)
     out["minutes_from"] = table["minutes"].to_numpy()[first]

@@ -154,3 +154,12 @@ def test_null_in_blocks_matches_one_block(demo_model, demo_prepared, monkeypatch
     assert len(i) > 37 * 3
     np.testing.assert_array_equal(whole["p_value"], blocked["p_value"])
     np.testing.assert_array_equal(whole["noise_distance"], blocked["noise_distance"])
+
+
+def test_a_zero_move_has_a_finite_z(demo_model, demo_prepared):
+    kept = demo_prepared.kept.iloc[[0, 0]].copy()
+    kept["player_id"] = "X"
+    kept["season"] = ["2020", "2021"]
+    moves = pair_moves(demo_model, kept, demo_model.place(kept), np.array([0]), np.array([1]))
+    assert moves["distance"].iloc[0] == 0 and moves["p_value"].iloc[0] == pytest.approx(1.0)
+    assert np.isfinite(moves["z"]).all() and moves["z"].iloc[0] < -8
