@@ -97,8 +97,11 @@ def _with_trades(frame, rng, share=0.02):
         second[col] = np.maximum(1, frame.loc[traded, col].to_numpy() - first[col].to_numpy())
     second["team"] = _labels("T{:02d}", 40)[rng.integers(30, 40, len(second))]
     # the new team uses him a little differently: small changes in every rate and share
-    feats = [c for c in FEATURES if c in second.columns]
-    second[feats] = np.round(second[feats].to_numpy() * rng.uniform(0.9, 1.1, (len(second), len(feats))), 4)
+    shares = [c for c in FEATURES if c.startswith("share_")]
+    others = [c for c in FEATURES if not c.startswith("share_")]
+    bumped = second[shares].to_numpy() * rng.uniform(0.9, 1.1, (len(second), len(shares)))
+    second[shares] = np.floor(bumped / bumped.sum(axis=1, keepdims=True) * 1e4) / 1e4  # still sum <= 1
+    second[others] = np.round(second[others].to_numpy() * rng.uniform(0.95, 1.05, (len(second), len(others))), 4)
     first["stint"], second["stint"] = 1, 2
     kept = frame[~traded].copy()
     kept["stint"] = 1
