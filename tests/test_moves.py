@@ -146,7 +146,7 @@ def test_null_in_blocks_matches_one_block(demo_model, demo_prepared, monkeypatch
     import drift.model.movenoise as movenoise
 
     kept = demo_prepared.kept
-    i, j = consecutive_season_pairs(kept)
+    i, j = consecutive_pairs(kept)
     placed = demo_model.place(kept)
     whole = pair_moves(demo_model, kept, placed, i, j)
     monkeypatch.setattr(movenoise, "BLOCK", 37)
