@@ -107,7 +107,7 @@ def pair_moves(model, table, placements, first, second, *, alpha=0.01, n_drivers
     differs = role_from != role_to
     out["status"] = np.select(
         [differs & out["beyond_noise"], differs, out["beyond_noise"]],
-        ["changed", "unsettled", "shifted"], default="steady")
+        list(MOVE_STATUSES[:3]), default=MOVE_STATUSES[3])
     out["role_changed"] = out["status"] == "changed"
     _add_drivers(out, model, processed, delta, distance, first, second, n_drivers)
     for j in range(q):

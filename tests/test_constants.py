@@ -14,3 +14,10 @@ def test_role_ids_round_trip_and_user_ids_have_no_number():
 def test_every_reason_code_has_wording_and_joined_codes_read_as_one_phrase():
     assert reason_text("few_games") == FILTER_REASONS["few_games"]
     assert reason_text("few_games+few_minutes") == "too few games and too few minutes per game"
+
+
+def test_every_feature_family_has_a_missing_value_rule():
+    from drift.constants import MISSING_ACTIONS
+    from drift.features import FAMILIES
+
+    assert set(MISSING_ACTIONS) == set(FAMILIES)

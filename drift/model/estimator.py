@@ -146,10 +146,10 @@ class RoleModel(FittingSteps, FileMethods):
         processed, state = self._fit_noise(pool)
         z = self._fit_scaler(processed)
         scores = self._fit_components(z)
-        labels = self._fit_roles(scores, processed, settings)
+        self._fit_roles(scores, processed, settings)
         self._fit_reference(pool, scores)
         self._calibrate_moves(pool, scores, state)
-        self._warn_unstable(labels)
+        self._warn_unstable()
         return self
 
     def _process(self, values, exposure, table):

@@ -138,7 +138,7 @@ class FittingSteps:
         self.calibration_sample_ = calibration.sample
         self.calibration_range_ = [calibration.low, calibration.high]
 
-    def _warn_unstable(self, labels):
+    def _warn_unstable(self):
         import warnings
 
         from ..constants import STABLE_JACCARD
