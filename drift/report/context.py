@@ -131,7 +131,8 @@ class ReportContext:
     "mid-season trade" / ""), ``teams, team_from, team_to, traded, role_from, role_to`` (roles),
     ``prob_from, prob_to`` (membership as text), ``status`` (changed, unsettled, shifted, steady),
     ``words`` (strength in plain words), ``figures`` (distance, noise, z and p for hover), ``z``,
-    ``minutes, drivers, comparables`` and ``filter_team, filter_role`` ("|"-joined values the
+    ``minutes, drivers, comparables``, ``status_key`` (sort order of the status) and
+    ``filter_team, filter_role`` ("|"-joined values the
     page's filters read).
 
     Attributes

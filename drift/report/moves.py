@@ -72,7 +72,7 @@ def move_rows(moves, b, *, comps=True):
             "traded": bool(row["traded"]),
             "role_from": b.role(row["role_from"]), "role_to": b.role(row["role_to"]),
             "prob_from": membership(row["prob_from"]), "prob_to": membership(row["prob_to"]),
-            "status": row["status"], "words": strength(row["p_value"], row["z"], b.alpha),
+            "status": row["status"], "status_key": STATUS_ORDER.get(row["status"], 9), "words": strength(row["p_value"], row["z"], b.alpha),
             "figures": figures_title(row["distance"], row["noise_distance"], row["z"], row["p_value"]),
             "z": float(row["z"]), "z_key": f"{row['z']:.4f}", "minutes": f"{row['minutes_from']:,.0f} / {row['minutes_to']:,.0f}",
             "drivers": _drivers(row),
