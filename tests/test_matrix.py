@@ -510,3 +510,59 @@ def test_hostile_names_run_end_to_end(tmp_path, capsys):
     assert written == given  # numbers untouched
     report = (out / "report.html").read_text(encoding="utf-8")
     assert "frac{$ unbalanced" in report  # shown as text, not parsed as math
+
+
+def _mutate_model(data: dict, draw):
+    """Change one value somewhere in a model file: a number, a text, a list's length, a key."""
+    from hypothesis import strategies as st
+
+    paths = []
+
+    def walk(node, path):
+        if isinstance(node, dict):
+            for k, v in node.items():
+                paths.append(path + (k,))
+                walk(v, path + (k,))
+        elif isinstance(node, list):
+            for i, v in enumerate(node[:3]):
+                paths.append(path + (i,))
+                walk(v, path + (i,))
+    walk(data, ())
+    path = draw(st.sampled_from(paths))
+    parent = data
+    for key in path[:-1]:
+        parent = parent[key]
+    how = draw(st.sampled_from(["nan", "inf", "negative", "text", "none", "drop", "list", "huge", "empty"]))
+    value = {"nan": float("nan"), "inf": float("inf"), "negative": -1.0, "text": "x", "none": None,
+             "list": [1.0], "huge": 1e308, "empty": {}}.get(how)
+    if how == "drop":
+        del parent[path[-1]]
+    else:
+        parent[path[-1]] = value
+    return json.dumps(data, allow_nan=True)
+
+
+def test_mutated_model_file_is_used_or_refused_in_one_line(world, tmp_path, capsys):
+    from hypothesis import HealthCheck, given, settings
+    from hypothesis import strategies as st
+
+    @settings(max_examples=25, deadline=None, derandomize=True, database=None,
+              suppress_health_check=list(HealthCheck))
+    @given(st.data())
+    def check(data):
+        model = tmp_path / "model.json"
+        model.write_text(_mutate_model(json.loads(json.dumps(world.model_dict)), data.draw))
+        out = tmp_path / "placed.csv"
+        code = main(["place", str(model), str(world.one_file), "--out", str(out)])
+        err = capsys.readouterr().err
+        assert "Traceback" not in err and "internal error" not in err, err
+        errors = [line for line in err.splitlines() if not line.startswith("drift: warning:")]
+        assert (code == 0 and not errors) or (code == 2 and len(errors) == 1), err
+        if code == 0:  # a model that was accepted places every row with finite numbers
+            import pandas as pd
+
+            placed = pd.read_csv(out)
+            numeric = placed.select_dtypes("number")
+            assert len(placed) and numeric.notna().all().all(), "accepted model gave empty numbers"
+
+    check()
