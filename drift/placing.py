@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from .config import Config
-from .preflight import check_distinct, check_regular
+from .preflight import check_distinct, check_placements_finite, check_regular
 from .preparing import _as_list, prepare
 from .progress import stages
 from .threads import thread_limited
@@ -87,6 +87,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     model.check_features(prepared.features)
     with st.stage("place", len(prepared.kept)):
         placements = model.place(prepared.kept)
+        check_placements_finite(placements, model_path)
     with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
         write_csv(placements, tmp)
     if len(prepared.excluded):

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from .errors import InputError
 
-__all__ = ["check_settings", "check_regular", "check_distinct"]
+__all__ = ["check_settings", "check_regular", "check_distinct", "check_placements_finite"]
 
 
 def check_settings(prepared, config) -> None:
@@ -85,3 +85,19 @@ def check_distinct(paths) -> None:
         if real.parent in folders and real not in folders:
             raise InputError(f"is also read as part of the folder {folders[real.parent]}; give the file "
                              "or its folder, not both", file=given)
+
+
+def check_placements_finite(placements, source) -> None:
+    """Refuse placements with a non-finite distance, probability or score.
+
+    A model file whose numbers pass every check one by one can still overflow together;
+    its placements would be NaN, which must never be written as a result.
+    """
+    import numpy as np
+
+    cols = [c for c in placements.columns if c in ("distance", "role_prob", "margin")
+            or c.startswith(("dist_", "prob_", "pc"))]
+    values = placements[cols].to_numpy(dtype=float)
+    if not np.isfinite(values).all():
+        raise InputError("placing with this model gives non-finite numbers (its values are out of range); "
+                         "the file was changed or is broken, refit", file=source)

@@ -202,6 +202,10 @@ class FileMethods:
 
 
 # ---------------------------------------------------------------------------- checks
+#: no number a fit writes comes near this; beyond it arithmetic on it overflows (placements NaN)
+MAX_MAGNITUDE = 1e12
+
+
 def validate(data, *, source="model") -> None:
     """Check ``data`` against :data:`FIELDS`; raise :class:`ModelFileError` with one line if not."""
     if not isinstance(data, dict) or data.get("schema") != SCHEMA:
@@ -233,6 +237,10 @@ def validate(data, *, source="model") -> None:
         raise ModelFileError(f"{source}: field 'noise': its features differ from 'features'; refit")
     if len(set(data["features"])) != len(data["features"]):
         raise ModelFileError(f"{source}: field 'features': names repeat; refit")
+    for i, row in enumerate(data["components"]):  # principal axes have unit length
+        if abs(math.sqrt(sum(x * x for x in row)) - 1) > 1e-6:
+            raise ModelFileError(f"{source}: field 'components'[{i}]: not of unit length, so not a fitted "
+                                 "component; the file was changed, refit")
 
 
 def _check(value, kind, shape, sizes, where):
@@ -252,9 +260,11 @@ def _check_scalar(value, kind, sizes, where):
     if kind in ("float", "positive", "float_or_null"):
         if value is None and kind == "float_or_null":
             return
-        ok = isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
+        ok = (isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
+              and abs(value) <= MAX_MAGNITUDE)
         if not ok or (kind == "positive" and value <= 0):
             need = "a positive finite number" if kind == "positive" else "a finite number"
+            need += f" within +-{MAX_MAGNITUDE:.0e}"
             raise ModelFileError(f"{where}: expected {need}, got {_describe(value)}")
     elif kind == "int":
         if not isinstance(value, int) or isinstance(value, bool) or value < 0:
