@@ -111,6 +111,11 @@ def test_requested_comparison_and_comparables_shown(demo_analysis):
     assert "requested" in page.ids
     row = context.latest_moves[0]
     assert row["status"] == "changed" and row["comparables"].count("(") == 3  # three nearest reference seasons
+    # the players' index shows each player's latest move between seasons, never the requested one
+    cons = demo_analysis.moves[demo_analysis.moves["kind"] == "consecutive"].sort_values("season_to", kind="stable")
+    shown = {r["anchor"]: r["status"] for r in context.player_index}
+    for pid, status in cons.groupby("player_id")["status"].last().items():
+        assert shown["p-" + str(pid)] == status
 
 
 def test_every_player_and_team_has_a_page_and_links_resolve(page, demo_analysis):
@@ -223,3 +228,4 @@ def test_caps_keep_a_large_league_bounded(demo_analysis, monkeypatch):
     page = _Page()
     page.feed(html)
     assert set(re.findall(r'href="#([^"]+)"', html)) <= page.ids  # names without a page are plain text
+

@@ -147,7 +147,9 @@ def build_players(analysis, b) -> dict:
             "trades": [m for m in player_moves if m["note"] == "mid-season trade"],
             "comparables": comps.get((pid, last["season"]), []), "outlook": outlooks.get(pid),
         })
-        latest_move = player_moves[-1] if player_moves else None
+        # the index shows his latest move between seasons (not the requested comparison or a trade)
+        seasonal = [m for m in player_moves if m["note"] not in ("requested comparison", "mid-season trade")]
+        latest_move = seasonal[-1] if seasonal else None
         index.append({"anchor": b.player_anchor[pid], "player": last["player"], "season": last["season"],
                       "team": str(last["team"]), "role": role, "seasons": len(rows),
                       "status": latest_move["status"] if latest_move else "",
