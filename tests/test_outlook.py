@@ -128,22 +128,19 @@ def test_demo_run_outlook_and_backtest(demo_analysis):
     assert (deciles["gap"].abs() <= 0.08).all()  # ~113 players a decile: binomial sd up to 3.4 points
 
 
-def test_report_shows_the_outlook_and_its_backtest(demo_analysis):
-    from drift.report import build_context, render_report
+def test_report_shows_the_outlook_and_its_backtest(demo_run):
+    """The run's report (the session's CLI run): Next season section, method tables, player pages."""
+    import html as html_lib
 
-    context = build_context(demo_analysis)
-    assert len(context.outlook) == len(demo_analysis.outlook)
-    first = context.outlook[0]
-    assert first["change"] == pytest.approx(demo_analysis.outlook["change_prob"].max())
-    html = render_report(context)
-    assert 'id="outlook"' in html and first["player"] in html
-    assert "same role as last season" in context.backtest_note and "How the outlook fared" in html
-    # the player page carries the outlook with its uncertainty: keep/change chances and the likeliest roles
     from drift.report.fmt import percent
 
-    page = next(p for p in context.players if p["outlook"])
-    row = page["outlook"]["rows"][0]
-    own = demo_analysis.outlook.set_index("player_id").loc[page["id"]]
-    assert row[2] == percent(own["stay_prob"]) and row[3] == percent(own["change_prob"])
-    assert own["projected_role"] in row[4]  # the likeliest roles with their chances
-    assert "Outlook for next season" in html and "position spread" in html
+    code, out = demo_run
+    assert code == 0
+    outlook = pd.read_csv(out / "outlook.csv")
+    page = html_lib.unescape((out / "report.html").read_text(encoding="utf-8"))
+    assert 'id="outlook"' in page and outlook["player"].iloc[0] in page
+    assert "How the outlook fared" in page and "change decile" in page
+    assert page.count("Outlook for next season") == len(outlook)  # one per player placed in the latest season
+    # his page shows his keep and change chances as outlook.csv has them
+    first = outlook.iloc[0]
+    assert f"{percent(first['stay_prob'])}</td><td>{percent(first['change_prob'])}" in page
