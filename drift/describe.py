@@ -1,8 +1,39 @@
-"""Readable role descriptions from a role's most distinctive features."""
+"""Readable role names and descriptions from a role's most distinctive features.
+
+A role's *name* is what a coach would call it ("pick-and-roll ball handler",
+"rim-running big", "spot-up wing") when its profile supports one of the
+:data:`ROLE_VOCABULARY` entries; otherwise it is its two strongest features
+("cutting heavy, high steal rate"). Its *description* always lists the three
+features that set it apart, so the name can be checked against the numbers.
+:func:`name_roles` names all roles at once so that no two share a name.
+"""
 
 from __future__ import annotations
 
-__all__ = ["feature_label", "describe_role", "name_role"]
+__all__ = ["feature_label", "describe_role", "name_role", "name_roles", "ROLE_VOCABULARY", "NAME_MIN_SCORE"]
+
+#: role name -> (feature, weight) pairs in pool SDs; the first feature is the defining one
+ROLE_VOCABULARY = {
+    "primary ball handler": (("share_pnr_handler", 1.0), ("usage_pct", 1.0), ("ast_pct", 1.0)),
+    "combo guard": (("share_pnr_handler", 0.5), ("share_handoff", 1.0), ("share_spot_up", 0.5),
+                    ("ast_pct", 0.5), ("drb_pct", -0.5)),
+    "isolation scorer": (("share_isolation", 1.0), ("usage_pct", 0.7), ("share_pnr_handler", -0.3)),
+    "spot-up wing": (("share_spot_up", 1.0), ("three_pa_rate", 1.0), ("usage_pct", -0.5), ("drb_pct", -0.5)),
+    "stretch big": (("drb_pct", 1.0), ("share_spot_up", 1.0), ("three_pa_rate", 1.0), ("share_roll_man", 0.5),
+                    ("share_transition", -0.5)),
+    "rim-running big": (("share_roll_man", 1.0), ("blk_pct", 0.5), ("orb_pct", 0.5), ("three_pa_rate", -0.5)),
+    "post-up big": (("share_post_up", 1.0), ("drb_pct", 0.5), ("usage_pct", 0.3)),
+    "slasher": (("share_transition", 1.0), ("share_cut", 0.5), ("ft_rate", 0.5), ("share_isolation", 0.5)),
+    "movement shooter": (("share_off_screen", 1.0), ("share_handoff", 0.5), ("three_pa_rate", 0.5)),
+    "energy big": (("share_putback", 1.0), ("orb_pct", 1.0), ("share_cut", 0.5)),
+    "cutter": (("share_cut", 1.0), ("ts_pct", 0.5)),
+    "rim protector": (("blk_pct", 1.0), ("drb_pct", 0.5)),
+    "perimeter stopper": (("stl_pct", 1.0), ("usage_pct", -0.5), ("share_spot_up", 0.3)),
+}
+#: a role takes a vocabulary name only when its weighted profile is this far above the pool (SDs);
+#: half an SD on average over the defining features (common practice, no source; checked on the
+#: demo league's truth in tests/test_describe.py)
+NAME_MIN_SCORE = 0.5
 
 _PLAY_LABELS = {
     "isolation": "isolation", "pnr_handler": "pick-and-roll ball handler", "roll_man": "roll man",
@@ -59,3 +90,64 @@ def name_role(z_by_feature, *, n: int = 2) -> str:
     if len(chosen) < n:
         chosen += sorted(z_by_feature.items(), key=lambda kv: (kv[1], kv[0]))[: n - len(chosen)]
     return ", ".join(_phrase(name, z) for name, z in chosen)
+
+
+def _score(z_by_feature, recipe) -> float:
+    """Weighted mean of the role's SDs over the recipe's features; -inf without the defining one."""
+    first = recipe[0][0]
+    if first not in z_by_feature or z_by_feature[first] <= 0.5:
+        return float("-inf")
+    present = [(z_by_feature[f], w) for f, w in recipe if f in z_by_feature]
+    return sum(z * w for z, w in present) / sum(abs(w) for _, w in present)
+
+
+def name_roles(z_roles, *, given=None) -> list:
+    """Names for all roles at once, none repeating another.
+
+    Parameters
+    ----------
+    z_roles : list of mapping feature -> centre minus pool mean, in pool SDs
+    given : list of (str or None), optional
+        Names the user set (kept as they are, and never reused).
+
+    Returns
+    -------
+    list of str
+        The :data:`ROLE_VOCABULARY` name that fits each role best when its score
+        reaches :data:`NAME_MIN_SCORE` (one role per name, best total fit by the
+        Hungarian algorithm), else :func:`name_role`; repeats get a distinguishing
+        feature added.
+    """
+    import numpy as np
+    from scipy.optimize import linear_sum_assignment
+
+    given = list(given) if given is not None else [None] * len(z_roles)
+    vocab = [v for v in ROLE_VOCABULARY if v not in given]
+    scores = np.array([[_score(z, ROLE_VOCABULARY[v]) for v in vocab] for z in z_roles]).reshape(len(z_roles), -1)
+    names = [g for g in given]
+    free = [i for i, g in enumerate(given) if g is None]
+    if vocab and free:
+        cost = np.where(np.isfinite(scores[free]), -scores[free], 1e6)
+        for r, c in zip(*linear_sum_assignment(cost)):
+            if scores[free[r], c] >= NAME_MIN_SCORE:
+                names[free[r]] = vocab[c]
+    for i in free:
+        if names[i] is None:
+            names[i] = name_role(z_roles[i])
+    return _distinct(names, z_roles, set(i for i, g in enumerate(given) if g is not None))
+
+
+def _distinct(names, z_roles, fixed):
+    """Add a role's next most distinctive feature to a name another role already has."""
+    for _ in range(len(names)):
+        seen = {}
+        for i, n in enumerate(names):
+            seen.setdefault(n.lower(), []).append(i)
+        clashes = [i for idx in seen.values() if len(idx) > 1 for i in idx[1:] if i not in fixed]
+        if not clashes:
+            return names
+        for i in clashes:
+            extra = [kv for kv in sorted(z_roles[i].items(), key=lambda kv: (-abs(kv[1]), kv[0]))
+                     if _phrase(*kv) not in names[i]]
+            names[i] = f"{names[i]} ({_phrase(*extra[0])})" if extra else f"{names[i]} ({i + 1})"
+    return names

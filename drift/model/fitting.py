@@ -106,12 +106,12 @@ class FittingSteps:
         return labels
 
     def _describe_roles(self, given):
-        from ..describe import describe_role, name_role
+        from ..describe import describe_role, name_roles
 
         sd_units = self.in_pool_sd(self.centroids_features_)
         z_roles = [dict(zip(self.features_, row)) for row in sd_units]
         self.role_descriptions_ = [describe_role(z) for z in z_roles]
-        self.role_names_ = [given.get(rid, name_role(z)) for rid, z in zip(self.role_ids_, z_roles)]
+        self.role_names_ = name_roles(z_roles, given=[given.get(rid) for rid in self.role_ids_])
 
     def _fit_reference(self, pool, scores):
         import numpy as np
