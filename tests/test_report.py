@@ -229,3 +229,31 @@ def test_caps_keep_a_large_league_bounded(demo_analysis, monkeypatch):
     page.feed(html)
     assert set(re.findall(r'href="#([^"]+)"', html)) <= page.ids  # names without a page are plain text
 
+
+
+def test_arrivals_are_judged_on_every_season_row(context, demo_analysis):
+    # a bench player on the team's roster in the earlier season (below the filters there) is no
+    # arrival: judged on every combined season row, placed or not, not on placements
+    raw = demo_analysis.prepared.seasons.astype({"team": str})
+    last_team = {(r.player_id, r.season): r.team.split("/")[-1] for r in raw.itertuples(index=False)}
+    pl = demo_analysis.placements.astype({"team_first": str})
+    s0, s1 = context.seasons[-2], context.seasons[-1]
+    names = {}
+    stayed_seen = 0
+    for page, row in zip(context.teams, context.team_index):
+        team = page["team"]
+        now = pl[(pl["season"] == s1) & (pl["team_first"] == team)]
+        truth = {p for p in now["player_id"] if last_team.get((p, s0)) != team}
+        names[team] = truth
+        assert row["arrivals"] == len(truth), team
+        for mv in page["movement"]:
+            for a in mv["stayed"]:
+                stayed_seen += 1
+                assert "on the roster in" in a["other"]
+                assert a["moved"] == "stayed"
+            for a in mv["arrivals"]:
+                assert "not placed in both seasons" not in a["words"]
+    excluded = demo_analysis.prepared.excluded
+    assert stayed_seen > 0 and len(excluded)  # the demo has returning bench players
+    below = [a["other"] for page in context.teams for mv in page["movement"] for a in mv["stayed"]]
+    assert any(re.search(r"below the filters \(\d+\.\d minutes per game < 10\)", w) for w in below), below[:3]

@@ -175,10 +175,12 @@ class ReportContext:
     teams : list of dict
         One team page each: ``anchor, team``, ``mix`` (per season, latest first: season,
         players, roles with share and text), ``movement`` (per pair: pair, arrivals,
-        departures, note; each player, anchor, other, role, status, words), ``trades`` and
+        departures, stayed (on the roster in both seasons, placed in one), n_arrivals (uncut),
+        note; each player, anchor, moved, other, role, status, words; arrivals and departures
+        judged on every season row, placed or not), ``trades`` and
         ``changed`` (move rows) with ``trades_note`` and ``changed_note`` (set when cut).
     team_index : list of dict
-        anchor, team, players (latest season), changed (latest pair), arrivals.
+        anchor, team, players (latest season), changed (latest pair), arrivals (latest pair, uncut).
     roles : list of dict
         One per role: id, name, css, description, size, stability, unstable (bool), colour,
         features (label, value, pool, sd_diff; values in the feature's own units).

@@ -8,7 +8,7 @@ from __future__ import annotations
 import math
 import re
 
-__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title"]
+__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title", "filter_words"]
 
 
 def _missing(v) -> bool:
@@ -84,3 +84,23 @@ def figures_title(distance, noise, z, p_value) -> str:
     """The figures behind a move's words, for hover text."""
     return (f"distance {sig(distance, 3)} (noise alone: {sig(noise, 3)}), z {sig(z, 3)}, "
             f"p {sig(p_value, 2)}")
+
+
+def filter_words(row, config) -> str:
+    """Why a season row was left out, in numbers: "9.1 minutes per game < 10" (and/or games).
+
+    ``row`` is a record of the excluded table (games, minutes_per_game, reason_code); the limits
+    come from ``config.intake``; codes without a number read as ``drift.constants.reason_text``.
+    """
+    from ..constants import reason_text
+
+    intake = config.intake
+    parts = []
+    for code in str(row.get("reason_code", "")).split("+"):
+        if code == "few_games":
+            parts.append(f"{float(row['games']):g} games < {intake.min_games:g}")
+        elif code == "few_minutes":
+            parts.append(f"{float(row['minutes_per_game']):.1f} minutes per game < {intake.min_minutes_per_game:g}")
+        elif code:
+            parts.append(reason_text(code))
+    return " and ".join(parts)

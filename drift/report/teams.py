@@ -50,24 +50,65 @@ def _mix(block, b):
              "text": f"{100 * by_role.get(rid, 0.0) / total:.0f}%"} for rid in b.names if total > 0]
 
 
-def _movement(by_season, team, s0, s1, b, moves_by):
-    """Arrivals (team_first in s1, not his team at the end of s0) and departures, with roles."""
+def _roster(analysis, pl, config):
+    """Season -> player id -> (first team, last team, why not placed or "") from every combined
+    season row, placed or not: a player below the filters is still on his team's roster."""
+    from .fmt import filter_words
+
+    prepared = getattr(analysis, "prepared", None)
+    raw = prepared.seasons if prepared is not None and prepared.seasons is not None else pl
+    why = {}
+    if prepared is not None and prepared.excluded is not None and len(prepared.excluded):
+        for r in prepared.excluded.to_dict(orient="records"):
+            why[(r["player_id"], r["season"])] = filter_words(r, config)
+    out = {}
+    for pid, season, team in raw[["player_id", "season", "team"]].astype({"team": str}).itertuples(index=False):
+        teams = team.split("/")
+        out.setdefault(season, {})[pid] = (teams[0], teams[-1], why.get((pid, season), ""))
+    return out
+
+
+def _movement(by_season, roster, team, s0, s1, b, moves_by):
+    """Arrivals and departures of placed players, judged on every season row (placed or not):
+    an arrival is placed with the team in ``s1`` and was not with it at the end of ``s0``; a
+    departure the reverse. Players on the roster in both seasons but placed in only one are
+    listed apart ("stayed"), never counted as arrivals or departures."""
     prev, now = by_season.get(s0, {}), by_season.get(s1, {})
+    raw0, raw1 = roster.get(s0, {}), roster.get(s1, {})
 
-    def row(pid, r, where):
+    def row(pid, r, moved, where, missing):
         move = moves_by.get((pid, s0, s1))
-        return {"player": r["player"], "anchor": b.player_anchor.get(pid, ""), "other": where,
-                "role": b.role(r["role"]),
-                "status": move["status"] if move else "",
-                "words": move["words"] if move else ""}
+        return {"player": r["player"], "anchor": b.player_anchor.get(pid, ""), "moved": moved, "other": where,
+                "role": b.role(r["role"]), "status": move["status"] if move else "",
+                "words": move["words"] if move else missing}
 
-    arrivals = [row(pid, r, f"from {prev[pid]['team_last']}" if pid in prev else f"not placed in {s0}")
-                for pid, r in now.items()
-                if r["team_first"] == team and not (pid in prev and prev[pid]["team_last"] == team)]
-    departures = [row(pid, r, f"to {now[pid]['team_first']}" if pid in now else f"not placed in {s1}")
-                  for pid, r in prev.items()
-                  if r["team_last"] == team and not (pid in now and now[pid]["team_first"] == team)]
-    return arrivals, departures
+    def below(season, why):
+        return f"on the roster in {season}, below the filters ({why})" if why else f"on the roster in {season}"
+
+    arrivals, departures, stayed = [], [], []
+    for pid, r in now.items():
+        if r["team_first"] != team or (pid in prev and prev[pid]["team_last"] == team):
+            continue
+        had = raw0.get(pid)
+        if had and had[1] == team:
+            stayed.append(row(pid, r, "stayed", below(s0, had[2]), "no earlier placed season to compare"))
+        elif had:
+            note = "" if pid in prev else f" (not placed in {s0}: {had[2]})" if had[2] else f" (not placed in {s0})"
+            arrivals.append(row(pid, r, "arrived", f"from {had[1]}{note}", "no earlier placed season to compare"))
+        else:
+            arrivals.append(row(pid, r, "arrived", f"not in the {s0} data", "no earlier placed season to compare"))
+    for pid, r in prev.items():
+        if r["team_last"] != team or (pid in now and now[pid]["team_first"] == team):
+            continue
+        has = raw1.get(pid)
+        if has and has[0] == team:
+            stayed.append(row(pid, r, "stayed", below(s1, has[2]), "no later placed season to compare"))
+        elif has:
+            note = "" if pid in now else f" (not placed in {s1}: {has[2]})" if has[2] else f" (not placed in {s1})"
+            departures.append(row(pid, r, "left", f"to {has[0]}{note}", "no later placed season to compare"))
+        else:
+            departures.append(row(pid, r, "left", f"not in the {s1} data", "no later placed season to compare"))
+    return arrivals, departures, stayed
 
 
 def build_teams(analysis, b) -> dict:
@@ -85,6 +126,7 @@ def build_teams(analysis, b) -> dict:
     for rec in pl[["player_id", "player", "season", "role", "team_first", "team_last"]].astype(
             {"team_first": str, "team_last": str}).to_dict(orient="records"):
         by_season.setdefault(rec["season"], {})[rec["player_id"]] = rec
+    roster = _roster(analysis, pl, analysis.config)
     cons = b.consecutive
     changed_all = cons[cons["status"] == "changed"] if len(cons) else cons
     changed_teams = [set(f"{a}/{z}".split("/")) for a, z in zip(changed_all.get("team_from", []),
@@ -105,10 +147,11 @@ def build_teams(analysis, b) -> dict:
         movement = []
         for s0, s1 in zip(b.seasons[:-1], b.seasons[1:]):
             if s0 in seasons or s1 in seasons:
-                arrivals, departures = _movement(by_season, team, s0, s1, b, moves_by)
-                cut = max(len(arrivals), len(departures)) > mv.TEAM_ROWS
+                arrivals, departures, stayed = _movement(by_season, roster, team, s0, s1, b, moves_by)
+                cut = max(len(arrivals), len(departures), len(stayed)) > mv.TEAM_ROWS
                 movement.append({"pair": f"{s0} → {s1}", "arrivals": arrivals[:mv.TEAM_ROWS],
-                                  "departures": departures[:mv.TEAM_ROWS],
+                                  "departures": departures[:mv.TEAM_ROWS], "stayed": stayed[:mv.TEAM_ROWS],
+                                  "n_arrivals": len(arrivals),
                                   "note": (f"{len(arrivals):,} arrivals and {len(departures):,} departures; the first "
                                            f"{mv.TEAM_ROWS} of each are listed (placements.csv has them all).")
                                   if cut else ""})
@@ -126,5 +169,5 @@ def build_teams(analysis, b) -> dict:
         latest = mix[-1] if mix and mix[-1]["season"] == b.seasons[-1] else None
         index.append({"anchor": anchor, "team": team, "players": latest["players"] if latest else 0,
                       "changed": sum(1 for m in pages[-1]["changed"] if m["pair"].endswith(b.seasons[-1])),
-                      "arrivals": len(movement[0]["arrivals"]) if movement else 0})
+                      "arrivals": movement[0]["n_arrivals"] if movement else 0})
     return {"teams": pages, "team_index": index}
