@@ -187,7 +187,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     guarded = [*_as_list(data), previous, *inputs]
     check_regular(guarded)
     check_distinct(_as_list(data))
-    check_output_folder(out, inputs=guarded, names=OUTPUT_FILES)
+    check_output_folder(out, kind="run", inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config, progress=st)
     check_settings(prepared, config)
@@ -200,7 +200,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         alignment = align_models(prev, model)
         model = relabel(model, prev, alignment, keep_names=dict(config.role_names))
     analysis = analyse(prepared, model, config, alignment=alignment, progress=st)
-    with atomic_folder(out, inputs=guarded) as tmp:
+    with atomic_folder(out, kind="run", inputs=guarded) as tmp:
         write_outputs(analysis, tmp, progress=st)
     return analysis
 

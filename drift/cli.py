@@ -255,7 +255,7 @@ def _demo(args):
     from .demo import generate_league, write_league
     from .outputs import atomic_folder
 
-    with atomic_folder(args.out) as tmp:  # checked first: never over a folder of real seasons
+    with atomic_folder(args.out, kind="demo") as tmp:  # checked first: never over a folder of real seasons
         files = write_league(tmp, generate_league(args.seed, partial_games=args.partial_games))
     return f"drift: wrote {len(files)} season files and the truth to {args.out}"
 

@@ -1,8 +1,10 @@
 """Outputs drift owns: folders replaced whole or not at all, never a file drift did not write.
 
 An output folder carries a marker file, ``.drift-output.json``, naming the files drift wrote
-there. A rerun replaces only a folder with a valid marker (or an empty one), removes only the
-files the marker names, and keeps everything else the user put in the folder. No output may
+there and the kind of output (the command that wrote it). A rerun of the same command replaces
+only a folder with a valid marker of its own kind (or an empty one), removes only the files the
+marker names, and keeps everything else the user put in the folder; another command's output
+folder is refused, and so is a single file (``drift place --out FILE``) that a marker lists. No output may
 be, contain or lie inside an input (data files and folders, the model, the config).
 
 How a folder is replaced (Linux): the new outputs are written into a hidden staging folder
@@ -25,7 +27,8 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from .errors import InputError
-from .ownership import MARKER, clean_litter, files_under, read_marker, remove_owned, write_marker
+from .ownership import (KINDS, MARKER, clean_litter, files_under, marker_kind, read_marker, remove_owned,
+                        write_marker)
 
 __all__ = ["MARKER", "check_inputs", "check_output_folder", "atomic_folder", "check_output_file",
            "atomic_file"]
@@ -77,12 +80,30 @@ def _check_parent(out: Path, what: str) -> None:
         raise InputError(f"{what} cannot be written: no write permission in {base}", file=out)
 
 
-def check_output_folder(out, *, inputs=(), names=()) -> dict:
+def _check_not_csv(out: Path, kind: str) -> None:
+    if out.suffix.lower() == ".csv" and not out.is_dir():
+        alone = " (without --against, drift place writes one CSV)" if kind == "inseason" else ""
+        raise InputError(f"--out {out.name} ends in .csv, but `{KINDS[kind]}` writes a folder{alone}; "
+                         f"give a folder name such as {out.stem}", file=out)
+
+
+def _check_kind(out: Path, marker: dict, kind: str) -> None:
+    found = marker_kind(marker)
+    if found != kind:
+        writer = KINDS.get(found, f"a drift command ({found})")
+        raise InputError(f"--out is the output folder of `{writer}`; `{KINDS[kind]}` never replaces "
+                         "another command's output, choose another folder", file=out)
+
+
+def check_output_folder(out, *, kind, inputs=(), names=()) -> dict:
     """Check before any work that ``out`` may be written; return what it holds.
 
     Parameters
     ----------
     out : path
+    kind : str
+        The kind of output (a key of :data:`drift.ownership.KINDS`); a folder another kind
+        of output owns is refused.
     inputs : paths that the output must not be, contain or lie inside
     names : file names the run may write (a user's file of one of these names is refused)
 
@@ -100,6 +121,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
     if out.parent == out:
         raise InputError("--out cannot be the root of the file system; give a folder", file=out)
     check_inputs(out, inputs)
+    _check_not_csv(out, kind)
     _check_parent(out, "--out")
     clean_litter(out)
     if out.is_symlink():
@@ -117,6 +139,7 @@ def check_output_folder(out, *, inputs=(), names=()) -> dict:
             raise InputError(f"--out is a non-empty folder that is not a drift output (no valid {MARKER}); "
                              "give a new or empty folder", file=out)
         return {"owned": set()}
+    _check_kind(out, marker, kind)
     owned = set(marker["files"])
     clash = sorted(n for n in set(names) - owned if os.path.lexists(out / n))
     if clash:
@@ -196,9 +219,9 @@ def _staging(out: Path, kind: str) -> Path:
     return out.parent / f".{out.name}.drift-{kind}-{os.getpid()}-{secrets.token_hex(4)}"
 
 
-def _commit(tmp: Path, out: Path, inputs) -> None:
-    state = check_output_folder(out, inputs=inputs, names=files_under(tmp))
-    write_marker(tmp, "complete", files_under(tmp))
+def _commit(tmp: Path, out: Path, inputs, kind) -> None:
+    state = check_output_folder(out, kind=kind, inputs=inputs, names=files_under(tmp))
+    write_marker(tmp, "complete", files_under(tmp), kind=kind)
     with _signals_held():
         if not out.exists():
             os.rename(tmp, out)
@@ -220,25 +243,25 @@ def _commit(tmp: Path, out: Path, inputs) -> None:
 
 
 @contextmanager
-def atomic_folder(out, *, inputs=()):
+def atomic_folder(out, *, kind, inputs=()):
     """Yield a staging folder; on success it replaces ``out`` (see the module docstring).
 
     ``out`` is checked first (:func:`check_output_folder`). On any error, or Ctrl-C, the
     staging folder is removed and ``out`` is untouched.
     """
     out = _abs(out)
-    check_output_folder(out, inputs=inputs)
+    check_output_folder(out, kind=kind, inputs=inputs)
     out.parent.mkdir(parents=True, exist_ok=True)
     tmp = _staging(out, "new")
     tmp.mkdir()
     committed = False
     try:
-        write_marker(tmp, "staging")
+        write_marker(tmp, "staging", kind=kind)
         _test_point("staging")
         os.chmod(tmp, 0o777 & ~_umask())
         yield tmp
         _test_point("written")
-        _commit(tmp, out, inputs)
+        _commit(tmp, out, inputs, kind)
         committed = True  # after the swap ``tmp`` may hold the old output: _commit cleaned it
     finally:
         if not committed and tmp.exists():
@@ -255,7 +278,9 @@ def check_output_file(path, *, inputs=(), header=("player_id", "role"), what="--
     """Check before any work that the file ``path`` may be written.
 
     An existing file is replaced only when empty or when its first line is a CSV header
-    holding every name in ``header`` (a file drift wrote); anything else is refused.
+    holding every name in ``header`` (a file drift wrote); anything else is refused. A file
+    that the marker of an enclosing output folder lists belongs to that output and is refused
+    whatever its header.
     """
     path = _abs(path)
     check_inputs(path, inputs, what=what)
@@ -263,6 +288,7 @@ def check_output_file(path, *, inputs=(), header=("player_id", "role"), what="--
     clean_litter(path)
     if path.is_symlink() or (path.exists() and not path.is_file()):
         raise InputError(f"{what} exists and is not a regular file; give a file path", file=path)
+    _check_not_listed(path, what)
     if path.exists() and path.stat().st_size > 0:
         try:
             with open(path, encoding="utf-8", newline="") as fh:
@@ -274,6 +300,18 @@ def check_output_file(path, *, inputs=(), header=("player_id", "role"), what="--
             raise InputError(f"{what} exists and is not a file drift wrote (its header lacks "
                              f"{', '.join(header)}); choose another path or remove it", file=path)
     return path
+
+
+def _check_not_listed(path: Path, what: str) -> None:
+    """Refuse a file that an output folder above it lists in its marker (another output's file)."""
+    rel = path.name
+    for folder in path.parents:
+        marker = read_marker(folder)
+        if marker is not None and rel in marker["files"]:
+            writer = KINDS.get(marker_kind(marker), "drift")
+            raise InputError(f"{what} is {rel} of the `{writer}` output in {folder}; drift never "
+                             "overwrites another output's file, choose a path outside that folder", file=path)
+        rel = f"{folder.name}/{rel}"
 
 
 @contextmanager

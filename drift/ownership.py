@@ -1,7 +1,8 @@
 """What drift can prove it owns: the marker file of an output folder and the litter of killed runs.
 
 The marker, ``.drift-output.json``, says ``written_by: drift``, a ``state`` (``staging`` while a
-run writes, ``complete`` once done) and the relative paths of the files drift wrote. Litter is
+run writes, ``complete`` once done), the ``kind`` of output (``run``, ``inseason``, ``demo``: the
+command that wrote it) and the relative paths of the files drift wrote. Litter is
 a hidden sibling ``.<name>.drift-(new|old|tmp)-<pid>-<random>`` left by a run that was killed;
 it is removed only when its process is gone, and then only what the rules of
 :func:`remove_owned` prove to be drift's.
@@ -13,10 +14,14 @@ import json
 import os
 from pathlib import Path
 
-__all__ = ["MARKER", "read_marker", "write_marker", "files_under", "remove_owned", "clean_litter"]
+__all__ = ["MARKER", "KINDS", "read_marker", "marker_kind", "write_marker", "files_under", "remove_owned",
+           "clean_litter"]
 
 #: the marker file drift writes into every output folder
 MARKER = ".drift-output.json"
+
+#: each kind of output folder and the command that writes it (named in refusals)
+KINDS = {"run": "drift run", "inseason": "drift place --against", "demo": "drift demo"}
 
 
 def _pid_alive(pid: int) -> bool:
@@ -54,9 +59,27 @@ def read_marker(folder: Path):
     if (not isinstance(data, dict) or data.get("written_by") != "drift"
             or data.get("state") not in ("staging", "complete")
             or not isinstance(data.get("files"), list)
-            or not all(isinstance(f, str) and _safe_relative(f) for f in data["files"])):
+            or not all(isinstance(f, str) and _safe_relative(f) for f in data["files"])
+            or not isinstance(data.get("kind", ""), str)):
         return None
     return data
+
+
+def marker_kind(marker: dict) -> str:
+    """The kind of output a marker describes.
+
+    A marker without ``kind`` (written before drift recorded it) is read by its files:
+    ``model.json`` or ``report.html`` is a run, ``inseason.csv`` or ``inseason.html`` an
+    in-season check, anything else the demo league.
+    """
+    if marker.get("kind"):
+        return marker["kind"]
+    files = set(marker["files"])
+    if files & {"model.json", "report.html"}:
+        return "run"
+    if files & {"inseason.csv", "inseason.html"}:
+        return "inseason"
+    return "demo"
 
 
 def _safe_relative(path: str) -> bool:
@@ -76,8 +99,11 @@ def files_under(folder: Path, rel="") -> list:
     return found
 
 
-def write_marker(folder: Path, state: str, files=()):
-    text = json.dumps({"written_by": "drift", "state": state, "files": sorted(files)}, indent=1)
+def write_marker(folder: Path, state: str, files=(), *, kind=None):
+    data = {"written_by": "drift", "state": state, "files": sorted(files)}
+    if kind is not None:
+        data["kind"] = kind
+    text = json.dumps(data, indent=1)
     (folder / MARKER).write_text(text + "\n", encoding="utf-8")
 
 

@@ -18,7 +18,7 @@ __all__ = ["place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAME
 @dataclass(frozen=True)
 class Placed:
     """What :func:`place_files` wrote: ``placements`` to ``path``; ``excluded`` (the rows the
-    filters left out, with ``reason`` and ``reason_code``) to ``excluded_path`` when there are any."""
+    filters left out, with ``reason`` and ``reason_code``; header only when none) to ``excluded_path``."""
 
     placements: object
     excluded: object
@@ -60,9 +60,10 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
 
     ``progress`` receives stage events as in :func:`run`.
 
-    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv``. Neither
-    may be an input (model, data, ``inputs``) nor lie in an input folder, and an existing
-    file is replaced only if drift wrote it (checked before any work).
+    Rows the filters exclude are written beside ``out`` as ``<stem>_excluded.csv`` (always,
+    header only when none). Neither may be an input (model, data, ``inputs``) nor lie in an
+    input folder, an existing file is replaced only if drift wrote it, and a file an output
+    folder's marker lists (another output's file) is refused (checked before any work).
 
     Returns
     -------
@@ -79,7 +80,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     check_regular(guarded)
     check_distinct(_as_list(files))
     check_output_file(out, inputs=guarded)
-    check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"))
+    check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"), what="the excluded list")
     model = RoleModel.load(model_path)
     config = _model_config(model, config).replace(min_games=min_games,
                                                   min_minutes_per_game=min_minutes_per_game)
@@ -90,10 +91,11 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
         check_placements_finite(placements, model_path)
     with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
         write_csv(placements, tmp)
-    if len(prepared.excluded):
-        with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
-                         what="the excluded list") as tmp:
-            write_csv(prepared.excluded, tmp)
+    # always written (header only when nothing is excluded): a list left by an earlier placement
+    # beside new placements would describe other rows
+    with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
+                     what="the excluded list") as tmp:
+        write_csv(prepared.excluded, tmp)
     return Placed(placements, prepared.excluded, out, excluded_path)
 
 
@@ -144,7 +146,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_regular(guarded)
     check_distinct([*_as_list(partial), *_as_list(against)])
-    check_output_folder(out, inputs=guarded, names=INSEASON_FILES)
+    check_output_folder(out, kind="inseason", inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
     base = _model_config(model, config)
     part_config = base.replace(
@@ -159,7 +161,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     unmatched = unmatched.assign(reason=FILTER_REASONS["no_earlier_season"], reason_code="no_earlier_season")
     columns = [c for c in part.excluded.columns if c in unmatched.columns]
     excluded = pd.concat([part.excluded, unmatched[columns]], ignore_index=True)
-    with atomic_folder(out, inputs=guarded) as tmp:
+    with atomic_folder(out, kind="inseason", inputs=guarded) as tmp:
         write_csv(checks, tmp / "inseason.csv")
         write_csv(excluded, tmp / "inseason_excluded.csv")
         write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,

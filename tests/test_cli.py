@@ -128,6 +128,24 @@ def test_refuses_to_replace_a_foreign_folder(tmp_path, capsys):
     assert "not a drift output" in err and (foreign / "thesis.docx").exists()
 
 
+def test_another_commands_output_is_never_replaced(demo_run, tmp_path, capsys):
+    """The new-user trial: an in-season check or a placement aimed at a run folder deleted it."""
+    import shutil
+
+    report = tmp_path / "drift-report"
+    shutil.copytree(demo_run[1], report)
+    before = {p.name: p.read_bytes() for p in report.iterdir()}
+    model = str(demo_run[1] / "model.json")  # the model of another run: this folder is no input
+    partial = tmp_path / "2025-26.csv"
+    shutil.copy(DEMO / "2024-25.csv", partial)
+    err = _fails(["place", model, str(partial), "--against", str(DEMO), "--out", str(report)], capsys)
+    assert "output folder of `drift run`" in err and "choose another folder" in err
+    err = _fails(["place", model, str(DEMO / "2024-25.csv"), "--out", str(report / "placements.csv")], capsys)
+    assert "placements.csv of the `drift run` output" in err
+    _fails(["demo", "--out", str(report)], capsys)
+    assert {p.name: p.read_bytes() for p in report.iterdir()} == before
+
+
 def test_bad_config(tmp_path, capsys):
     cfg = tmp_path / "c.toml"
     cfg.write_text("[model]\nroles = 'many'\n")

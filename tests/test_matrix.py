@@ -112,11 +112,11 @@ def _set(path, value):
     return change
 
 
-def _marker_folder(tmp, extra):
+def _marker_folder(tmp, extra, **marker):
     out = tmp / "out"
     out.mkdir()
     (out / ".drift-output.json").write_text(json.dumps(
-        {"written_by": "drift", "state": "complete", "files": ["model.json"]}))
+        {"written_by": "drift", "state": "complete", "files": ["model.json"], **marker}))
     for name, text in extra.items():
         (out / name).write_text(text)
     return out
@@ -216,6 +216,12 @@ RUN_CASES = [
          r"not a drift output"),
     Case("out user file named like an output", lambda w, t: _run(w, t) if _marker_folder(
         t, {"moves.csv": "mine"}) else None, r"moves.csv, which drift did not write"),
+    Case("out is an in-season check folder", lambda w, t: _run(w, t) if _marker_folder(
+        t, {"inseason.csv": "player_id,role\n"}, kind="inseason", files=["inseason.csv"]) else None,
+         r"output folder of `drift place --against`.*choose another folder"),
+    Case("out is a demo league folder", lambda w, t: _run(w, t) if _marker_folder(
+        t, {"2021-22.csv": "x\n"}, files=["2021-22.csv"]) else None,
+         r"output folder of `drift demo`.*choose another folder"),
     Case("compare same season twice", lambda w, t: _run(w, t, "--compare", "2021-22", "2021-22"),
          r"two different seasons"),
     Case("compare unknown season", lambda w, t: _run(w, t, "--compare", "2021-22", "1999-00"),
@@ -341,6 +347,18 @@ PLACE_CASES = [
     Case("place data is a pipe", lambda w, t: _place(w, t, data=_fifo(t, "2024-25.csv")), r"is not a regular file"),
     Case("place min-minutes nan", lambda w, t: _place(w, t, None, None, None, "--min-minutes", "nan"),
          r"finite number"),
+    Case("place check over a run folder", lambda w, t: _place(
+        w, t, None, w.one_file, _marker_folder(t, {"model.json": "{}"}, kind="run"), "--against", str(w.folder)),
+         r"output folder of `drift run`; `drift place --against` never replaces"),
+    Case("place check out ends in .csv", lambda w, t: _place(
+        w, t, None, w.one_file, t / "early.csv", "--against", str(w.folder)),
+         r"early.csv ends in .csv.*writes a folder.*such as early"),
+    Case("place out is a run output file", lambda w, t: _place(
+        w, t, out=_marker_folder(t, {"placements.csv": "player_id,role\n"}, kind="run",
+                                 files=["model.json", "placements.csv"]) / "placements.csv"),
+         r"placements.csv of the `drift run` output"),
+    Case("demo over a run folder", lambda w, t: ["demo", "--out", str(_marker_folder(t, {"model.json": "{}"}))],
+         r"output folder of `drift run`; `drift demo` never replaces"),
     Case("demo over a data folder", lambda w, t: ["demo", "--out", str(_file(t, "2021-22.csv", "x").parent)],
          r"not a drift output"),
 ]

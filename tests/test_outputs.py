@@ -17,8 +17,8 @@ from drift.outputs import MARKER, atomic_file, atomic_folder, check_output_file,
 from conftest import ROOT
 
 
-def _write(out, files, **kw):
-    with atomic_folder(out, **kw) as tmp:
+def _write(out, files, kind="run", **kw):
+    with atomic_folder(out, kind=kind, **kw) as tmp:
         for name, text in files.items():
             (tmp / name).write_text(text)
 
@@ -57,7 +57,7 @@ def test_a_users_file_with_an_output_name_is_refused(tmp_path):
     _write(out, {"a.csv": "old"})
     (out / "alignment.csv").write_text("mine")
     with pytest.raises(InputError, match="alignment.csv, which drift did not write"):
-        check_output_folder(out, names=("alignment.csv",))
+        check_output_folder(out, kind="run", names=("alignment.csv",))
     with pytest.raises(InputError, match="did not write"):
         _write(out, {"alignment.csv": "new"})
     assert (out / "alignment.csv").read_text() == "mine" and (out / "a.csv").read_text() == "old"
@@ -93,7 +93,7 @@ def test_an_output_never_touches_an_input(tmp_path, case, message):
     (data / "2021-22.csv").write_text("x")
     out = {"same": data, "contains": tmp_path, "inside": data / "report"}[case]
     with pytest.raises(InputError, match=message):
-        check_output_folder(out, inputs=[data])
+        check_output_folder(out, kind="run", inputs=[data])
     assert (data / "2021-22.csv").read_text() == "x"
 
 
@@ -131,16 +131,16 @@ def test_unwritable_output_is_refused_before_any_work(tmp_path):
     blocker = tmp_path / "file"
     blocker.write_text("x")
     with pytest.raises(InputError, match="is a file, not a folder"):
-        check_output_folder(blocker / "out")
+        check_output_folder(blocker / "out", kind="run")
     with pytest.raises(InputError, match="exists and is a file"):
-        check_output_folder(blocker)
+        check_output_folder(blocker, kind="run")
 
 
 _CHILD = textwrap.dedent("""
     import sys, time
     sys.path.insert(0, {root!r})
     from drift.outputs import atomic_folder
-    with atomic_folder(sys.argv[1]) as tmp:
+    with atomic_folder(sys.argv[1], kind="run") as tmp:
         for name in ("a.csv", "b.csv", "report.html"):
             (tmp / name).write_text(sys.argv[2])
 """)
@@ -175,7 +175,7 @@ def test_sigkill_at_any_step_keeps_a_complete_output(tmp_path, point, fallback):
     if point != "moved-away":  # between two renames the old output waits beside; see below
         assert _state(out) == (new if point == "swapped" else old)
     # the next run restores or keeps the last complete output and cleans the litter it proves its own
-    check_output_folder(out)
+    check_output_folder(out, kind="run")
     assert _state(out) == (new if point == "swapped" else old)
     assert _hidden(tmp_path) == []
     assert _child(out, "third", env).returncode == 0
@@ -201,7 +201,7 @@ _SLOW = textwrap.dedent("""
     from drift.messages import run_guarded
     from drift.outputs import atomic_folder
     def job(args):
-        with atomic_folder(sys.argv[1]) as tmp:
+        with atomic_folder(sys.argv[1], kind="run") as tmp:
             (tmp / "a.csv").write_text("new")
             print("ready", flush=True)
             time.sleep(30)
@@ -258,13 +258,13 @@ def test_cli_place_never_overwrites_its_model(tmp_path, capsys):
 
 def test_owned_files_in_subfolders(tmp_path):
     out = tmp_path / "out"
-    with atomic_folder(out) as tmp:
+    with atomic_folder(out, kind="run") as tmp:
         (tmp / "truth").mkdir()
         (tmp / "truth" / "old.csv").write_text("old")
         (tmp / "a.csv").write_text("old")
     assert json.loads((out / MARKER).read_text())["files"] == ["a.csv", "truth/old.csv"]
     (out / "truth" / "mine.txt").write_text("mine")
-    with atomic_folder(out) as tmp:
+    with atomic_folder(out, kind="run") as tmp:
         (tmp / "truth").mkdir()
         (tmp / "truth" / "new.csv").write_text("new")
     assert sorted(p.name for p in (out / "truth").iterdir()) == ["mine.txt", "new.csv"]
@@ -280,3 +280,49 @@ def test_demo_never_writes_over_a_folder_of_seasons(tmp_path, capsys):
     assert main(["demo", "--out", str(seasons)]) == 2
     assert "not a drift output" in capsys.readouterr().err
     assert (seasons / "2021-22.csv").read_text() == "real data"
+
+
+def test_marker_records_the_kind_and_another_kind_is_refused(tmp_path):
+    out = tmp_path / "out"
+    _write(out, {"report.html": "r", "placements.csv": "p"}, kind="run")
+    assert json.loads((out / MARKER).read_text())["kind"] == "run"
+    for kind, command in (("inseason", "drift place --against"), ("demo", "drift demo")):
+        with pytest.raises(InputError, match=f"output folder of `drift run`; `{command}` never replaces"):
+            _write(out, {"inseason.csv": "new"}, kind=kind)
+    assert (out / "report.html").read_text() == "r" and (out / "placements.csv").read_text() == "p"
+    _write(out, {"report.html": "r2"}, kind="run")  # the same command replaces its own output
+    assert (out / "report.html").read_text() == "r2" and not (out / "placements.csv").exists()
+
+
+@pytest.mark.parametrize("files, kind", [(["model.json", "report.html"], "run"),
+                                         (["inseason.csv", "inseason.html"], "inseason"),
+                                         (["2021-22.csv", "truth/roles.csv"], "demo")])
+def test_a_marker_without_kind_is_read_by_its_files(tmp_path, files, kind):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / MARKER).write_text(json.dumps({"written_by": "drift", "state": "complete", "files": files}))
+    assert check_output_folder(out, kind=kind)["owned"] == set(files)
+    other = "demo" if kind != "demo" else "run"
+    with pytest.raises(InputError, match="never replaces another command's output"):
+        check_output_folder(out, kind=other)
+
+
+@pytest.mark.parametrize("kind", ["run", "inseason", "demo"])
+def test_a_folder_named_like_a_csv_file_is_refused(tmp_path, kind):
+    with pytest.raises(InputError, match=r"x.csv ends in .csv, .* writes a folder.*; give a folder name such as x"):
+        check_output_folder(tmp_path / "x.csv", kind=kind)
+    assert not (tmp_path / "x.csv").exists()
+
+
+def test_a_file_listed_in_an_output_marker_is_not_overwritten(tmp_path):
+    out = tmp_path / "out"
+    _write(out, {"placements.csv": "player_id,role\n"}, kind="run")
+    with pytest.raises(InputError, match="placements.csv of the `drift run` output"):
+        check_output_file(out / "placements.csv")
+    (out / "truth").mkdir()
+    (out / "truth" / "roles.csv").write_text("player_id,role\n")
+    (out / MARKER).write_text(json.dumps({"written_by": "drift", "state": "complete", "kind": "demo",
+                                          "files": ["truth/roles.csv"]}))
+    with pytest.raises(InputError, match="truth/roles.csv of the `drift demo` output"):
+        check_output_file(out / "truth" / "roles.csv")
+    assert check_output_file(out / "early.csv") == out / "early.csv"  # a new file beside them is fine
