@@ -14,10 +14,14 @@
     var term = box.value.trim().toLowerCase();
     list.textContent = "";
     if (!term) { list.hidden = true; return; }
-    var hits = 0;
-    for (var i = 0; i < index.length && hits < 12; i++) {
-      if (index[i][0].toLowerCase().indexOf(term) !== -1) { item(index[i][0], "#" + index[i][1]); hits++; }
+    // exact matches of a key (team code, player name or id) first, then any label containing the term
+    var exact = [], partial = [];
+    for (var i = 0; i < index.length; i++) {
+      if ((index[i][3] || []).indexOf(term) !== -1) { exact.push(index[i]); }
+      else if (partial.length < 12 && index[i][0].toLowerCase().indexOf(term) !== -1) { partial.push(index[i]); }
     }
+    var shown = exact.concat(partial).slice(0, 12), hits = shown.length;
+    shown.forEach(function (e) { item(e[0], "#" + e[1]); });
     if (!hits) { item("no player or team matches", null); }
     list.hidden = false;
   }

@@ -90,6 +90,22 @@ def test_search_opens_a_player_page(loaded, demo_analysis):
     assert page.locator("#report").is_visible() and errors == []
 
 
+def test_search_ranks_the_team_page_first(loaded, demo_analysis):
+    # a team code is part of a dozen players' labels; the team page must still be the first hit
+    page, errors, _ = loaded
+    team = str(demo_analysis.placements["team"].iloc[-1]).split("/")[0]
+    page.fill("#q", team)
+    first = page.locator("#q-results a").first
+    assert "team page" in first.inner_text() and first.get_attribute("href") == f"#t-{team}"
+    page.press("#q", "Enter")
+    page.locator("article.team:target").wait_for()
+    page.goto(page.url.split("#")[0] + "#teams")
+    link = page.locator("#teams table.data a", has_text=team).first  # team codes in the table are links
+    assert link.get_attribute("href") == f"#t-{team}"
+    page.goto(page.url.split("#")[0] + "#review")
+    assert errors == []
+
+
 def test_sorting_and_filtering_change_rows(loaded):
     page, errors, _ = loaded
     page.goto(page.url.split("#")[0] + "#review")

@@ -171,7 +171,8 @@ class ReportContext:
     map_symbol : Markup
         The shared role-map background the player paths use.
     search_index : Markup
-        JSON list of [label, anchor, kind] for the search box (safe inside a script element).
+        JSON list of [label, anchor, kind, keys] for the search box (exact key matches rank
+        first; safe inside a script element).
     teams : list of dict
         One team page each: ``anchor, team``, ``mix`` (per season, latest first: season,
         players, roles with share and text), ``movement`` (per pair: pair, arrivals,

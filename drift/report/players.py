@@ -175,16 +175,23 @@ def _group(moves, b):
 
 
 def build_search(analysis, b) -> dict:
-    """The search box's index: every paged player and every team, as JSON safe inside ``<script>``."""
+    """The search box's index: every paged player and every team, as JSON safe inside ``<script>``.
+
+    Each entry is [label, anchor, kind, keys]; a term equal to a key (a team code, a player's
+    name or id, lower case) is listed before the labels that merely contain it."""
     import json
 
     from markupsafe import Markup
 
     pl = analysis.placements
     last = pl[pl["player_id"].isin(b.player_anchor)].drop_duplicates("player_id", keep="last")
-    items = [[f"{r.player} · {r.team}", b.player_anchor[r.player_id], "player"]
+    # the fourth element: lower-case keys an exact search term ranks first (a team code before
+    # the dozen players whose label contains it)
+    items = [[f"{r.player} · {r.team}", b.player_anchor[r.player_id], "player",
+              [str(r.player).lower(), str(r.player_id).lower()]]
              for r in last[["player_id", "player", "team"]].itertuples(index=False)]
-    items += [[f"team {t}", anchor, "team"] for t, anchor in b.team_anchor.items()]
+    items += [[f"team {t} (team page)", anchor, "team", [str(t).lower(), f"team {t}".lower()]]
+              for t, anchor in b.team_anchor.items()]
     text = json.dumps(items, ensure_ascii=False)
     # "<" is escaped so no name can close the script element; JSON reads \u003c back as "<"
     return {"search_index": Markup(text.replace("<", "\\u003c").replace(">", "\\u003e").replace("&", "\\u0026"))}
