@@ -92,11 +92,53 @@ def _count(text: str):
 
 
 class _Parser(argparse.ArgumentParser):
-    """argparse whose errors are one ``drift: error:`` line, exit 2."""
+    """argparse whose errors are one ``drift: error:`` line, exit 2.
+
+    Options are never abbreviated (``--min-game`` is not ``--min-games``), and an unknown
+    option is named, with the nearest known one, before any missing argument: a misspelt
+    ``--ot`` is the reason ``--out`` is missing.
+    """
+
+    def __init__(self, *args, **kwargs):
+        kwargs["allow_abbrev"] = False
+        super().__init__(*args, **kwargs)
+        self._given = ()
+
+    def parse_known_args(self, args=None, namespace=None):
+        self._given = tuple(sys.argv[1:] if args is None else args)
+        namespace, extras = super().parse_known_args(args, namespace)
+        unknown = self._unknown(extras, to_end=True)
+        if unknown:
+            self.error(unknown)
+        return namespace, extras
+
+    def _unknown(self, given, *, to_end):
+        """'unknown option --x (did you mean --y?)' for the options in ``given`` this parser lacks."""
+        import difflib
+
+        found = []
+        for arg in given:
+            if arg == "--":
+                break
+            if not arg.startswith("-") or arg == "-" or self._negative_number_matcher.match(arg):
+                if not to_end and self._subparsers is not None:
+                    break  # the command name: what follows is the command's own options
+                continue
+            name = arg.split("=", 1)[0]
+            if name not in self._option_string_actions:
+                found.append(name)
+        if not found:
+            return None
+        known = [o[2:] for o in self._option_string_actions if o.startswith("--")]
+        near = difflib.get_close_matches(found[0].lstrip("-"), known, n=1, cutoff=0.7)
+        hint = f" (did you mean --{near[0]}?)" if near else ""
+        return f"unknown option{'s' if len(found) > 1 else ''} {', '.join(found)}{hint}"
 
     def error(self, message):
         from .messages import printable
 
+        if message.startswith("the following arguments are required"):
+            message = self._unknown(self._given, to_end=False) or message
         self.exit(2, f"drift: error: {printable(message)} (see '{self.prog} --help')\n")
 
 

@@ -183,3 +183,18 @@ def test_data_quality_warning_is_one_line(tmp_path, capsys):
                  "--components", "2"]) == 0
     err = capsys.readouterr().err
     assert "drift: warning: missing values set to the pool mean: usage_pct (1)" in err
+
+
+def test_no_parser_takes_abbreviations_and_unknown_options_come_first(capsys):
+    import argparse
+
+    from drift.cli import build_parser
+
+    parser = build_parser()
+    subs = next(a for a in parser._actions if isinstance(a, argparse._SubParsersAction))
+    assert not parser.allow_abbrev and not any(p.allow_abbrev for p in subs.choices.values())
+    with pytest.raises(SystemExit) as stop:  # a required positional (FILE) is missing too
+        main(["place", "m.json", "--out=x", "--against", "d", "--seasons-games=9"])
+    err = capsys.readouterr().err
+    assert stop.value.code == 2 and len(err.splitlines()) == 1
+    assert "unknown option --seasons-games (did you mean --season-games?)" in err

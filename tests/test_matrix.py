@@ -155,10 +155,14 @@ ARGUMENT_CASES = [
     Case("place season games 0", lambda w, t: _place(w, t, None, None, None, "--season-games", "0"), r">= 1"),
     Case("noise policy unknown", lambda w, t: _run(w, t, "--noise-policy", "mild"), r"invalid choice"),
     Case("compare one season", lambda w, t: _run(w, t, "--compare", "2021-22"), r"expected 2 arguments"),
+    Case("misspelt option and missing --out", lambda w, t: ["run", str(w.folder), "--ot", str(t / "o2")],
+         r"unknown option --ot \(did you mean --out\?\)"),
+    Case("abbreviated option", lambda w, t: _run(w, t, "--min-game", "10"),
+         r"unknown option --min-game \(did you mean --min-games\?\)"),
     Case("missing --out", lambda w, t: ["run", str(w.folder)], r"--out"),
     Case("unknown command", lambda w, t: ["rerun", str(w.folder)], r"invalid choice"),
     Case("no command", lambda w, t: [], r"required"),
-    Case("unknown option", lambda w, t: _run(w, t, "--colour", "red"), r"unrecognized arguments"),
+    Case("unknown option", lambda w, t: _run(w, t, "--colour", "red"), r"unknown option --colour"),
 ]
 
 RUN_CASES = [
@@ -312,6 +316,8 @@ PLACE_CASES = [
     Case("place model is a folder", lambda w, t: _place(w, t, model=w.folder), r"is a folder"),
     Case("place model binary", lambda w, t: _place(w, t, model=_file(t, "m.json", b"\xff\x00\x12")),
          r"not valid JSON"),
+    Case("place model and data swapped", lambda w, t: _place(w, t, model=w.one_file),
+         r"MODEL must be the model.json written by `drift run`"),
     Case("place model deeply nested", lambda w, t: _place(w, t, model=_file(
         t, "m.json", "[" * 100000 + "]" * 100000)), r"nested too deeply"),
     Case("place model is a list", lambda w, t: _place(w, t, model=_file(t, "m.json", "[]")),

@@ -333,6 +333,10 @@ def load(cls, path):
     except FileNotFoundError:
         raise ModelFileError(f"{path}: model file not found") from None
     except (json.JSONDecodeError, UnicodeDecodeError) as exc:
+        if path.suffix.lower() != ".json":  # most often a season file given first by mistake
+            raise ModelFileError(
+                f"{path}: not valid JSON, so not a model; MODEL must be the model.json written by "
+                "`drift run` (drift place MODEL FILE...: the model first, then the season files)") from None
         raise ModelFileError(f"{path}: not valid JSON ({exc}); the file is broken, refit") from None
     except RecursionError:
         raise ModelFileError(f"{path}: JSON nested too deeply to be a model file") from None
