@@ -22,7 +22,7 @@ KMEANS_RESTARTS = 10
 STANDARD_COLUMNS = (
     "player_id", "player", "season", "team", "games", "minutes", "possessions", "stint",
 )
-NOISE_POLICIES = ("shrink", "weight", "shrink+weight", "none")
+NOISE_POLICIES = ("shrink", "weight", "shrink+weight", "none", "shrink+restandardise")
 COMPONENT_RULES = ("parallel", "elbow", "variance")
 
 

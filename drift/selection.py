@@ -19,9 +19,13 @@ Roles (K-means on the pool's component scores), for k in 2..max_roles:
 * bootstrap stability: refit on resamples, match each resample's roles to the full fit's
   by the Hungarian algorithm, and take each role's mean Jaccard overlap.
 
-The default decision: k is eligible when every role's stability is >= 0.6; silhouette,
-Calinski-Harabasz and the gap rule each pick among eligible k; the decision is the value
-two or more of them agree on, else the median of the three.
+The default decision (``method="gap"``, chosen on the simulated-league family of
+:mod:`drift.simulate` by ``benchmarks/role_count.py``): the gap statistic's
+one-standard-error rule, median over three sets of reference draws. Silhouette and
+Calinski-Harabasz favour the coarse guards/wings/bigs split when roles blend, so they
+are reported, not used. A k whose least stable role is below 0.6 is marked
+(``stable`` false), a warning and not a veto. The former rule (``method="vote"``: stable
+k only, two of silhouette, Calinski-Harabasz and gap agreeing) stays available.
 """
 
 from __future__ import annotations
@@ -31,10 +35,13 @@ from dataclasses import dataclass
 __all__ = [
     "RoleChoice",
     "eigenvalues", "parallel_analysis", "elbow_count", "variance_count", "choose_components",
-    "gap_statistic", "gap_pick", "bootstrap_stability", "choose_roles", "STABLE_JACCARD",
+    "gap_statistic", "gap_pick", "gap_consensus", "bootstrap_stability", "choose_roles",
+    "STABLE_JACCARD", "ROLE_METHODS",
 ]
 
 from .constants import KMEANS_RESTARTS, STABLE_JACCARD  # noqa: E402  (re-exported for callers)
+
+ROLE_METHODS = ("gap", "gap_global", "gap_single", "vote", "silhouette", "calinski_harabasz")
 
 
 def eigenvalues(z):
@@ -148,8 +155,31 @@ def _kmeans(x, k, *, seed, n_init):
     return KMeans(n_clusters=k, n_init=n_init, random_state=seed).fit(x)
 
 
-def gap_statistic(x, ks, *, n_refs: int = 10, seed: int = 0, n_init: int = 3):
+def _log_inertia(x, k, *, seed, n_init):
+    """log of the within-cluster sum of squares of a K-means fit (k = 1: the total)."""
+    import numpy as np
+
+    if k == 1:
+        return float(np.log(((x - x.mean(axis=0)) ** 2).sum()))
+    return float(np.log(_kmeans(x, k, seed=seed, n_init=n_init).inertia_))
+
+
+def gap_statistic(x, ks, *, n_refs: int = 10, seed: int = 0, n_init: int = 3, log_w=None):
     """Gap(k) and s_k for each k, reference sets uniform over the data's bounding box.
+
+    Parameters
+    ----------
+    x : array of shape (n, q)
+        Data (component scores, so the box is aligned with the principal axes).
+    ks : sequence of int
+    n_refs : int
+        Reference sets.
+    seed : int
+        Seeds the reference sets and their K-means fits.
+    n_init : int
+        K-means restarts (for the data when ``log_w`` is not given, and the references).
+    log_w : sequence of float, optional
+        log W(k) of the data for each k, when the caller already fitted it.
 
     Returns
     -------
@@ -161,21 +191,63 @@ def gap_statistic(x, ks, *, n_refs: int = 10, seed: int = 0, n_init: int = 3):
     rng = np.random.default_rng(seed)
     lo, hi = x.min(axis=0), x.max(axis=0)
     refs = [rng.uniform(lo, hi, size=x.shape) for _ in range(n_refs)]
+    if log_w is None:
+        log_w = [_log_inertia(x, k, seed=seed, n_init=n_init) for k in ks]
     gap, s = [], []
-    for k in ks:
-        log_w = np.log(_kmeans(x, k, seed=seed, n_init=n_init).inertia_)
-        ref_log_w = np.log([_kmeans(r, k, seed=seed, n_init=n_init).inertia_ for r in refs])
-        gap.append(ref_log_w.mean() - log_w)
+    for k, lw in zip(ks, log_w):
+        ref_log_w = np.array([_log_inertia(r, k, seed=seed, n_init=n_init) for r in refs])
+        gap.append(ref_log_w.mean() - lw)
         s.append(ref_log_w.std() * np.sqrt(1 + 1 / n_refs))
     return np.array(gap), np.array(s)
 
 
-def gap_pick(ks, gap, s) -> int:
-    """Smallest k with Gap(k) >= Gap(k+1) - s(k+1); the largest k if none."""
+def gap_pick(ks, gap, s, *, how: str = "first") -> int:
+    """The gap statistic's one-standard-error choice of k.
+
+    ``how="first"``: the smallest k with Gap(k) >= Gap(k+1) - s(k+1) (Tibshirani,
+    Walther & Hastie 2001); the largest k if none. ``how="global"``: the smallest
+    k with Gap(k) >= Gap(k*) - s(k*), k* the global maximum (the "globalSEmax"
+    variant of Dudoit & Fridlyand 2002); it is not stopped by an early plateau
+    of the curve, such as blobs on a grid.
+    """
+    import numpy as np
+
+    if how == "global":
+        best = int(np.argmax(gap))
+        return int(next(k for k, g in zip(ks, gap) if g >= gap[best] - s[best]))
     for i in range(len(ks) - 1):
         if gap[i] >= gap[i + 1] - s[i + 1]:
             return int(ks[i])
     return int(ks[-1])
+
+
+def gap_consensus(x, ks, log_w, *, n_refs: int = 10, seeds=(0, 1, 2), n_init: int = 1,
+                  how: str = "first", curves=None):
+    """The gap statistic's one-standard-error pick on several sets of reference draws.
+
+    The pick of one set of reference draws can move by one or two roles with the
+    seed in a league whose roles blend; the median over ``seeds`` is the
+    consensus (with three seeds it needs two of them to move).
+
+    Parameters
+    ----------
+    curves : list of (gap, s), optional
+        Curves already computed for these seeds (another ``how`` on the same draws).
+
+    Returns
+    -------
+    k : int
+        Median of the picks (the lower middle value for an even count).
+    picks : list of int
+        One pick per seed.
+    curves : list of (gap, s)
+        One curve per seed, each two arrays of shape (len(ks),).
+    """
+    if curves is None:
+        curves = [gap_statistic(x, ks, n_refs=n_refs, seed=sd, n_init=n_init, log_w=log_w)
+                  for sd in seeds]
+    picks = [gap_pick(ks, gap, s, how=how) for gap, s in curves]
+    return int(sorted(picks)[(len(picks) - 1) // 2]), picks, curves
 
 
 def bootstrap_stability(x, labels, centers, *, n_boot: int = 20, seed: int = 0, n_init: int = 3):
@@ -212,22 +284,55 @@ def bootstrap_stability(x, labels, centers, *, n_boot: int = 20, seed: int = 0, 
 
 @dataclass(frozen=True)
 class RoleChoice:
-    """The decision: ``k``, per-k ``diagnostics``, per-role ``stability`` (k,) and the fitted ``kmeans``."""
+    """The decision: ``k``, per-k ``diagnostics``, per-role ``stability`` (k,), the fitted
+    ``kmeans``, and ``picks`` (rule -> the k each rule would choose; empty for a fixed k)."""
 
     k: int
     diagnostics: object
     stability: object
     kmeans: object
+    picks: dict = None
 
 
-def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = KMEANS_RESTARTS,
-                 n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000) -> RoleChoice:
+def _vote(diag, gap_k):
+    """The former default: silhouette, Calinski-Harabasz and the gap among stable k, two of three."""
+    import numpy as np
+
+    eligible = diag["stability_min"] >= STABLE_JACCARD
+    if not eligible.any():
+        eligible = diag["stability_min"] == diag["stability_min"].max()
+    el = diag[eligible]
+    sil_k = int(el.loc[el["silhouette"].idxmax(), "k"])
+    ch_k = int(el.loc[el["calinski_harabasz"].idxmax(), "k"])
+    if gap_k not in set(el["k"]):
+        later = el["k"][el["k"] >= gap_k]
+        gap_k = int(later.min()) if len(later) else int(el["k"].max())
+    votes = [sil_k, ch_k, gap_k]
+    agreed = [v for v in votes if votes.count(v) >= 2]
+    return agreed[0] if agreed else int(np.median(votes))
+
+
+def choose_roles(x, rule, *, max_roles: int = 14, seed: int = 0, n_init: int = KMEANS_RESTARTS,
+                 n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000,
+                 method: str = "gap", n_consensus: int = 3) -> RoleChoice:
     """Pick the number of roles (``rule`` = "auto") or take a fixed one (an int).
 
     Parameters
     ----------
     x : array of shape (n, q)
-        Component scores of the pool.
+        Component scores of the pool (a caller may pass a seeded subsample).
+    rule : "auto" or int
+    max_roles : int
+        Largest k tried.
+    method : {"gap", "vote", "silhouette", "calinski_harabasz"}
+        The rule deciding k under "auto". ``"gap"`` (default, chosen by measurement
+        in ``benchmarks/role_count.py``): the gap statistic's one-standard-error rule,
+        median over ``n_consensus`` sets of reference draws (seeds ``seed`` ..
+        ``seed + n_consensus - 1``). ``"vote"``: the former rule (stable k only,
+        two of silhouette, Calinski-Harabasz and gap agreeing). The others take
+        the best k of one criterion. Every criterion and bootstrap stability is
+        reported in ``diagnostics`` whatever decides; a role below the stability
+        threshold is a warning, never a veto.
 
     Returns
     -------
@@ -247,7 +352,7 @@ def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = K
         km = fits[k] = _kmeans(x, k, seed=seed, n_init=n_init)
         labels = km.labels_
         row = {"k": k, "inertia": km.inertia_}
-        if k >= 2 and len(set(labels)) > 1:
+        if len(set(labels)) > 1:
             row["silhouette"] = silhouette_score(
                 x, labels, sample_size=min(sample_size, len(x)), random_state=seed)
             row["calinski_harabasz"] = calinski_harabasz_score(x, labels)
@@ -258,32 +363,30 @@ def choose_roles(x, rule, *, max_roles: int = 10, seed: int = 0, n_init: int = K
         row["stability_min"], row["stability_mean"] = float(stab.min()), float(stab.mean())
         rows.append(row)
     diag = pd.DataFrame(rows)
-    gap_ks = [1] + ks + [ks[-1] + 1] if len(ks) > 1 else ks + [ks[-1] + 1]
-    gap, s = gap_statistic(x, gap_ks, n_refs=n_refs, seed=seed)
-    by_k = dict(zip(gap_ks, zip(gap, s)))
-    diag["gap"] = [by_k[k][0] for k in ks]
-    diag["gap_se"] = [by_k[k][1] for k in ks]
+    diag["stable"] = diag["stability_min"] >= STABLE_JACCARD
     if isinstance(rule, int):
-        diag["eligible"] = True
         diag["chosen"] = True
-        return RoleChoice(rule, diag, stability[rule], fits[rule])
-    eligible = diag["stability_min"] >= STABLE_JACCARD
-    if not eligible.any():
-        eligible = diag["stability_min"] == diag["stability_min"].max()
-    diag["eligible"] = eligible
-    el = diag[eligible]
-    sil_k = int(el.loc[el["silhouette"].idxmax(), "k"])
-    ch_k = int(el.loc[el["calinski_harabasz"].idxmax(), "k"])
-    gk = np.array(gap_ks)
-    gap_k = gap_pick(gk, gap, s)
-    if gap_k not in set(el["k"]):
-        later = el["k"][el["k"] >= gap_k]
-        gap_k = int(later.min()) if len(later) else int(el["k"].max())
-    votes = [sil_k, ch_k, gap_k]
-    agreed = [v for v in votes if votes.count(v) >= 2]
-    k = agreed[0] if agreed else int(np.median(votes))
-    diag["pick_silhouette"] = diag["k"] == sil_k
-    diag["pick_calinski_harabasz"] = diag["k"] == ch_k
-    diag["pick_gap"] = diag["k"] == gap_k
+        return RoleChoice(rule, diag, stability[rule], fits[rule], {})
+    gap_ks = [1] + ks + [ks[-1] + 1]
+    log_w = ([_log_inertia(x, 1, seed=seed, n_init=1)] + [float(np.log(fits[k].inertia_)) for k in ks]
+             + [_log_inertia(x, ks[-1] + 1, seed=seed, n_init=n_init)])
+    gap_k, gap_picks, curves = gap_consensus(x, gap_ks, log_w, n_refs=n_refs,
+                                             seeds=range(seed, seed + n_consensus))
+    global_k, _, _ = gap_consensus(x, gap_ks, log_w, how="global", curves=curves)
+    diag["gap"] = np.mean([g for g, _ in curves], axis=0)[1:-1]
+    diag["gap_se"] = np.mean([s for _, s in curves], axis=0)[1:-1]
+    diag["gap_votes"] = [gap_picks.count(k) for k in diag["k"]]
+    inside = lambda v: int(min(max(v, ks[0]), ks[-1]))  # noqa: E731
+    picks = {
+        "gap": inside(gap_k), "gap_global": inside(global_k), "gap_single": inside(gap_picks[0]),
+        "silhouette": int(diag.loc[diag["silhouette"].idxmax(), "k"]),
+        "calinski_harabasz": int(diag.loc[diag["calinski_harabasz"].idxmax(), "k"]),
+    }
+    picks["vote"] = _vote(diag, picks["gap_single"])
+    if method not in ROLE_METHODS:
+        raise ValueError(f"method={method!r} is not one of {', '.join(ROLE_METHODS)}")
+    k = picks[method]
+    for name, value in picks.items():
+        diag[f"pick_{name}"] = diag["k"] == value
     diag["chosen"] = diag["k"] == k
-    return RoleChoice(k, diag, stability[k], fits[k])
+    return RoleChoice(k, diag, stability[k], fits[k], picks)

@@ -8,8 +8,10 @@ from sklearn.datasets import load_breast_cancer, load_iris, load_wine, make_blob
 from sklearn.decomposition import PCA
 from sklearn.preprocessing import StandardScaler
 
-from drift.selection import (choose_components, choose_roles, elbow_count, eigenvalues, gap_pick,
-                             gap_statistic, parallel_analysis, variance_count)
+from sklearn.cluster import KMeans
+
+from drift.selection import (choose_components, choose_roles, elbow_count, eigenvalues, gap_consensus,
+                             gap_pick, gap_statistic, parallel_analysis, variance_count)
 
 
 def _std(loader):
@@ -93,7 +95,7 @@ def test_gap_statistic_picks_four_blobs():
 
 def test_wine_roles_three_by_silhouette_and_calinski_harabasz():
     z = _std(load_wine)
-    choice = choose_roles(z, "auto", max_roles=8, n_boot=10)
+    choice = choose_roles(z, "auto", max_roles=8, n_boot=10, method="vote")
     k, diag = choice.k, choice.diagnostics
     row = diag.set_index("k").loc[3]
     # source: shared/check-values.md, k-means k=3 on standardised wine (n_init=10, random_state=0)
@@ -102,6 +104,41 @@ def test_wine_roles_three_by_silhouette_and_calinski_harabasz():
     assert diag.loc[diag["silhouette"].idxmax(), "k"] == 3
     assert diag.loc[diag["calinski_harabasz"].idxmax(), "k"] == 3
     assert k == 3 and choice.stability.min() > 0.8 and len(choice.kmeans.cluster_centers_) == 3
+    assert choice.picks["silhouette"] == choice.picks["calinski_harabasz"] == 3
+
+
+def test_gap_consensus_is_the_median_of_its_seeds_and_finds_blobs():
+    x, _ = make_blobs(400, n_features=5, centers=6, cluster_std=1.0, center_box=(-10, 10),
+                      random_state=3)
+    ks = list(range(1, 10))
+    log_w = [np.log(((x - x.mean(0)) ** 2).sum())] + [
+        np.log(KMeans(k, n_init=10, random_state=0).fit(x).inertia_) for k in ks[1:]]
+    k, picks, curves = gap_consensus(x, ks, log_w, n_refs=10, seeds=(0, 1, 2))
+    assert k == sorted(picks)[1] and len(curves) == 3 and len(curves[0][0]) == len(ks)
+    # six well separated blobs: the 1-SE rule of Tibshirani, Walther & Hastie (2001) finds them
+    assert k == 6
+
+
+def test_global_gap_rule_is_not_stopped_by_a_plateau():
+    # a gap curve that rises, levels off at k = 2, and rises again to its maximum at k = 5
+    ks = [1, 2, 3, 4, 5, 6]
+    gap = np.array([0.0, 0.30, 0.31, 0.32, 1.00, 0.98])
+    s = np.full(6, 0.05)
+    # firstSEmax vs globalSEmax: Dudoit & Fridlyand (2002), as in R's cluster::maxSE (from memory)
+    assert gap_pick(ks, gap, s) == 2 and gap_pick(ks, gap, s, how="global") == 5
+
+
+def test_default_rule_is_the_gap_and_stability_never_vetoes():
+    x, _ = make_blobs(300, centers=[[0, 0], [8, 0], [0, 8], [8, 8], [4, 14]], cluster_std=1.0,
+                      random_state=1)
+    choice = choose_roles(x, "auto", max_roles=8, n_boot=5)
+    diag = choice.diagnostics.set_index("k")
+    assert choice.k == choice.picks["gap"] == 5
+    assert {"stable", "gap_votes", "pick_vote", "chosen"} <= set(diag.columns)
+    assert diag.loc[5, "gap_votes"] >= 2
+    # a k with an unstable role can still be chosen: stability is reported, not used
+    low = choose_roles(np.random.default_rng(0).normal(size=(200, 2)), "auto", max_roles=6, n_boot=5)
+    assert low.k in range(2, 7) and "stable" in low.diagnostics
 
 
 def test_fixed_roles_skip_the_search():

@@ -114,7 +114,7 @@ class RoleModel(FittingSteps, FileMethods):
 
     @property
     def _shrinks(self) -> bool:
-        return self.noise_policy in ("shrink", "shrink+weight")
+        return self.noise_policy in ("shrink", "shrink+weight", "shrink+restandardise")
 
     # ------------------------------------------------------------------ fitting
     def fit(self, pool, *, features, intake=None):

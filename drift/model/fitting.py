@@ -52,8 +52,12 @@ class FittingSteps:
 
         scaler = StandardScaler().fit(processed)
         self.scaler_mean_ = scaler.mean_
+        # shrunk features keep the pool's raw scale, so a noisy feature pulled toward its mean
+        # keeps only its reliable share of the variance; re-standardising would undo that
+        keep_raw = self.noise_policy in ("shrink", "shrink+weight")
+        spread = self.noise_["sd"].to_numpy(float) if keep_raw else scaler.scale_
         # a feature shrunk flat (all noise) carries nothing: unit scale keeps it harmless
-        self.scaler_scale_ = safe_scale(scaler.scale_, scaler.mean_)
+        self.scaler_scale_ = safe_scale(spread, scaler.mean_)
         if self.noise_policy in ("weight", "shrink+weight"):
             r = self.noise_["year_to_year_r"].fillna(self.noise_["signal_share"]).to_numpy(float)
             self.weights_ = np.sqrt(np.clip(r, 0.05, 1.0))
