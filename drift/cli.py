@@ -185,7 +185,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--reference", nargs="+", metavar="SEASON", help="seasons of the pool (default: all)")
     run.add_argument("--roles", type=_roles, metavar="K", help="number of roles, or auto (default)")
     run.add_argument("--components", type=_components, metavar="N|FRACTION|RULE",
-                     help="components: parallel (default), elbow, variance, a count or a fraction")
+                     help="components: variance (default, 90%%), parallel, elbow, a count or a fraction")
     run.add_argument("--noise-policy", choices=("shrink", "weight", "shrink+weight", "none"),
                      help="how small samples are handled (default shrink)")
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")

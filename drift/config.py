@@ -38,9 +38,10 @@ A config file has up to six tables; every key is optional::
 
     [model]
     reference = ["2021-22", "2022-23"]
-    components = "parallel"      # "parallel", "elbow", "variance", a count, or a fraction
+    components = "variance"      # "variance" (90%), "parallel", "elbow", a count, or a fraction
     roles = "auto"               # or a number >= 2
-    noise_policy = "shrink"      # "shrink", "weight", "shrink+weight", "none"
+    max_roles = 14
+    noise_policy = "shrink"      # "shrink", "weight", "shrink+weight", "none", "shrink+restandardise"
     seed = 0
 
     [moves]
@@ -148,10 +149,10 @@ class IntakePolicy(_Part):
 class ModelSettings(_Part):
     """The reference model's settings (see :class:`drift.model.RoleModel`)."""
 
-    components: object = "parallel"
-    variance_threshold: float = 0.80
+    components: object = "variance"
+    variance_threshold: float = 0.90
     roles: object = "auto"
-    max_roles: int = 10
+    max_roles: int = 14
     noise_policy: str = "shrink"
     seed: int = 0
     n_init: int = rules.KMEANS_RESTARTS

@@ -77,6 +77,8 @@ class RoleModel(FittingSteps, FileMethods):
         1/m1 + 1/m2 of the two samples over its pool median ``calibration_sample_``;
         fitted on the pool's returning players ((1, 0) = as modelled).
     calibration_sample_ : float
+    null_df_ : float
+        Tail of the move null: d2 / q is F(q, null_df_) (1e6 = chi-square).
     calibration_range_ : list of two floats
         The range of x seen in the pool; x is clipped to it.
     component_diagnostics_, role_diagnostics_ : DataFrame
@@ -85,8 +87,8 @@ class RoleModel(FittingSteps, FileMethods):
     fingerprint_ : str
     """
 
-    def __init__(self, *, components="parallel", variance_threshold=0.8, roles="auto",
-                 max_roles=10, noise_policy="shrink", seed=0, n_init=KMEANS_RESTARTS, n_bootstrap=20,
+    def __init__(self, *, components="variance", variance_threshold=0.9, roles="auto",
+                 max_roles=14, noise_policy="shrink", seed=0, n_init=KMEANS_RESTARTS, n_bootstrap=20,
                  role_names=None):
         self.components = components
         self.variance_threshold = variance_threshold
@@ -153,10 +155,12 @@ class RoleModel(FittingSteps, FileMethods):
         return self
 
     def _process(self, values, exposure, table):
-        from ..features import sample_base
+        import numpy as np
+
         from .shrinkage import process
 
-        base = sample_base(table, floor=1.0)
+        # the move calibration's sample size: minutes (rates settle with time on the floor)
+        base = np.maximum(table["minutes"].to_numpy(float), 1.0)
         return process(values, exposure, base, self.noise_, self.families_, shrink=self._shrinks)
 
     # ------------------------------------------------------------------ using
@@ -233,7 +237,8 @@ class RoleModel(FittingSteps, FileMethods):
         from .movenoise import MoveCalibration, MoveNull
 
         a, b = self.noise_calibration_
-        calibration = MoveCalibration(a, b, self.calibration_sample_, *self.calibration_range_)
+        calibration = MoveCalibration(a, b, self.calibration_sample_, *self.calibration_range_,
+                                      df=self.null_df_)
         return MoveNull.between(self.loadings(), self.noise_, noise_from, noise_to, calibration)
 
     def place(self, table):

@@ -17,7 +17,7 @@ __all__ = ["SCHEMA", "SCHEMA_VERSION", "FIELDS", "ROLE_FIELDS", "NOISE_COLUMNS",
            "from_dict", "save", "load", "FileMethods"]
 
 SCHEMA = "drift-role-model"
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 #: field -> (kind, shape). Kinds: float (finite), int, str, and the nested kinds below.
 FIELDS = {
@@ -42,6 +42,7 @@ FIELDS = {
     "noise_calibration": ("float", (2,)),
     "calibration_sample": ("positive", ()),
     "calibration_range": ("float", (2,)),
+    "null_df": ("positive", ()),
     "component_diagnostics": ("records", ("n",)),
     "role_diagnostics": ("records", ("n",)),
     "reference_seasons": ("str", ("n",)),
@@ -102,6 +103,7 @@ def to_dict(model) -> dict:
         "noise_calibration": list(model.noise_calibration_),
         "calibration_sample": model.calibration_sample_,
         "calibration_range": list(model.calibration_range_),
+        "null_df": model.null_df_,
         "component_diagnostics": _records(model.component_diagnostics_),
         "role_diagnostics": _records(model.role_diagnostics_),
         "reference_seasons": list(model.reference_seasons_), "n_pool": model.n_pool_,
@@ -141,6 +143,7 @@ def from_dict(cls, data, *, source="model"):
     model.noise_calibration_ = [float(v) for v in data["noise_calibration"]]
     model.calibration_sample_ = float(data["calibration_sample"])
     model.calibration_range_ = [float(v) for v in data["calibration_range"]]
+    model.null_df_ = float(data["null_df"])
     model.component_diagnostics_ = pd.DataFrame(data["component_diagnostics"])
     model.role_diagnostics_ = pd.DataFrame(data["role_diagnostics"])
     model.reference_seasons_ = list(data["reference_seasons"])

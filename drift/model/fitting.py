@@ -139,6 +139,7 @@ class FittingSteps:
             raw_x = 1 / state.base[i1] + 1 / state.base[i2]
             calibration = fit_calibration(d2, raw_x, scores.shape[1])
         self.noise_calibration_ = [calibration.a, calibration.b]
+        self.null_df_ = calibration.df
         self.calibration_sample_ = calibration.sample
         self.calibration_range_ = [calibration.low, calibration.high]
 

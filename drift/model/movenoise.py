@@ -6,8 +6,13 @@ sampling noise of both, the change unequal shrinkage alone makes for a player
 away from the mean, and the typical true yearly change of a returning player),
 plus the multinomial covariance of play-type shares. Carried into component
 space by the loadings, it is scaled by a line a + b x fitted on the pool's
-returning players (x = 1/m1 + 1/m2 over its pool median), so that the squared
-Mahalanobis length of a move is chi-square with q degrees of freedom.
+returning players (x = 1/m1 + 1/m2 of the two seasons' minutes over its pool
+median: rate stats settle with minutes on the floor, whatever the possessions).
+Small samples give heavier tails than a Gaussian (shares and points per
+possession on a few possessions), so the squared Mahalanobis length over q is
+taken as F(q, df) with df fitted on the same pairs (the ratio of the 90th to the
+50th percentile); the statistic is returned as its chi-square equivalent, so a
+p-value is ``chi2.sf(statistic, q)`` whatever df is (df = 1e6 is chi-square).
 
 :class:`MoveNull` is built once per pair table and serves both the statistic
 and the noise distance.
@@ -17,7 +22,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["MoveCalibration", "MoveNull", "fit_calibration", "null_in_blocks", "BLOCK"]
+__all__ = ["MoveCalibration", "MoveNull", "fit_calibration", "null_in_blocks", "BLOCK",
+           "chi_square_equivalent", "CHI_SQUARE_DF"]
 
 #: pairs whose null covariance (block x q x q floats) is held in memory at once
 BLOCK = 16_384
@@ -27,6 +33,9 @@ _CLEAR_MOVER = 0.999
 _BINS = 5
 _MIN_PAIRS = 30
 _MIN_PER_BIN = 10
+#: degrees of freedom standing for "chi-square" (no extra tail)
+CHI_SQUARE_DF = 1e6
+_DF_GRID = (2.5, 3, 4, 5, 6, 8, 10, 15, 20, 30, 50, 100, 300, CHI_SQUARE_DF)
 
 
 @dataclass(frozen=True)
@@ -41,6 +50,7 @@ class MoveCalibration:
     sample: float = 1.0
     low: float = 0.0
     high: float = 1e12
+    df: float = CHI_SQUARE_DF
 
     def scale(self, base_from, base_to):
         """The factor, shape (m,), for pairs with samples ``base_from`` and ``base_to``."""
@@ -56,6 +66,7 @@ class MoveNull:
     """Null covariance ``cov`` (m, q, q) of m moves in component space."""
 
     cov: object
+    df: float = CHI_SQUARE_DF
 
     @classmethod
     def between(cls, loadings, noise, noise_from, noise_to, calibration=MoveCalibration()):
@@ -78,7 +89,7 @@ class MoveNull:
             u = state.factor * state.u
             lu = u @ loadings.T  # (m, q)
             cov = cov + _carry(loadings, u ** 2) - lu[:, :, None] * lu[:, None, :]
-        return cls(calibration.scale(noise_from.base, noise_to.base)[:, None, None] * cov)
+        return cls(calibration.scale(noise_from.base, noise_to.base)[:, None, None] * cov, calibration.df)
 
     def statistic(self, delta):
         """Squared Mahalanobis length of the moves ``delta`` (m, q): chi-square, q d.o.f., under the null."""
@@ -88,7 +99,7 @@ class MoveNull:
             return np.zeros(0)
         cov = self.cov + np.eye(self.cov.shape[1])[None] * 1e-9
         solved = np.linalg.solve(cov, delta[..., None])[..., 0]
-        return (delta * solved).sum(axis=1)
+        return chi_square_equivalent((delta * solved).sum(axis=1), self.cov.shape[1], self.df)
 
     def noise_distance(self):
         """Root of the total null variance of each move, shape (m,): a typical no-change distance."""
@@ -132,6 +143,28 @@ def _carry(loadings, feature_var):
     return (np.asarray(feature_var) @ outer).reshape(-1, q, q)
 
 
+def chi_square_equivalent(d2, q: int, df: float):
+    """The chi-square (q d.o.f.) value with the same upper tail as d2 / q under F(q, df)."""
+    import numpy as np
+    from scipy.stats import chi2, f
+
+    if df >= CHI_SQUARE_DF:
+        return d2
+    p = np.clip(f.sf(np.asarray(d2, float) / q, q, df), 1e-300, 1.0)
+    return chi2.isf(p, q)
+
+
+def _tail_df(r, q):
+    """df of F(q, df) whose 90th / 50th percentile ratio matches that of r (r = scaled d2 / q)."""
+    import numpy as np
+    from scipy.stats import f
+
+    ratio = np.quantile(r, 0.9) / np.quantile(r, 0.5)
+    ratios = np.array([f.ppf(0.9 * _CLEAR_MOVER, q, d) / f.ppf(0.5 * _CLEAR_MOVER, q, d) for d in _DF_GRID])
+    # the ratio falls as df grows: interpolate on the reversed (increasing) grid
+    return float(np.interp(ratio, ratios[::-1], np.array(_DF_GRID)[::-1]))
+
+
 def fit_calibration(d2, raw_x, q: int) -> MoveCalibration:
     """Fit a + b x so the pool's returning players' statistics ``d2`` follow the null.
 
@@ -146,10 +179,12 @@ def fit_calibration(d2, raw_x, q: int) -> MoveCalibration:
 
     In bins of sample size, the scale that puts the median on the null's median
     (the null truncated at its 99.9th percentile, since clear movers are left
-    out); then a weighted line through the bins, refitted five times.
+    out); then a weighted line through the bins, refitted five times. Then the
+    tail: df of F(q, df) from the 90th / 50th percentile ratio of the scaled
+    statistics, and the scale refitted so their median is F's median.
     """
     import numpy as np
-    from scipy.stats import chi2
+    from scipy.stats import chi2, f
 
     if len(d2) < _MIN_PAIRS:
         return MoveCalibration()
@@ -173,4 +208,11 @@ def fit_calibration(d2, raw_x, q: int) -> MoveCalibration:
         if min(a + b * x.min(), a + b * x.max()) <= 0:
             a, b = float(np.median(d2[keep]) / null_median), 0.0
         keep = d2 / (a + b * x) <= chi2.ppf(_CLEAR_MOVER, q)
-    return MoveCalibration(float(a), float(b), median, float(x.min()), float(x.max()))
+    df = CHI_SQUARE_DF
+    for _ in range(3):
+        r = d2 / (a + b * x) / q
+        keep = f.sf(r, q, df) >= 1 - _CLEAR_MOVER
+        df = _tail_df(r[keep], q)
+        c = float(np.median(r[keep]) / f.ppf(0.5 * _CLEAR_MOVER, q, df))
+        a, b = a * c, b * c
+    return MoveCalibration(float(a), float(b), median, float(x.min()), float(x.max()), float(df))

@@ -18,8 +18,8 @@ class NoiseState:
 
     ``u`` is non-zero for play-type shares only: their noise covariance is
     -u_a u_b off the diagonal (multinomial), so a share's rise is partly
-    another's fall. ``base`` (n,) is each row's sample (see
-    :func:`drift.features.sample_base`), at least 1.
+    another's fall. ``base`` (n,) is each row's minutes, at least 1 (the sample
+    size of the move calibration).
     """
 
     var: object
