@@ -28,15 +28,18 @@ def place(model, table):
 
     Notes
     -----
-    Membership probabilities treat roles as equal-weight spherical Gaussians
-    with the pool's within-role variance: p_r proportional to exp(-d_r^2 / (2 s^2)).
+    Membership probabilities are the posterior of Gaussian roles (weights = pool
+    shares, covariance = the true within-role spread plus this placement's own
+    sampling noise at its sample size), so short seasons get wider memberships
+    (:mod:`drift.model.membership`).
     """
     import numpy as np
     import pandas as pd
 
-    scores = model.transform(table)
+    processed, state = model.processed(table)
+    scores = model.scores_from_processed(processed)
     d = model.distances(scores)
-    prob = model.memberships(d)
+    prob = model.memberships(scores, state)
     order = np.argsort(d, axis=1, kind="stable")
     rows = np.arange(len(d))
     ids = np.asarray(model.role_ids_)

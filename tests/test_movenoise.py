@@ -47,3 +47,23 @@ def test_calibration_recovers_a_known_inflation():
 
 def test_too_few_pairs_keep_the_model_as_it_is():
     assert fit_calibration(np.ones(5), np.ones(5), 2) == MoveCalibration()
+
+
+def test_heavy_tail_is_fitted_and_mapped_to_chi_square():
+    from drift.model.movenoise import CHI_SQUARE_DF, chi_square_equivalent
+
+    rng = np.random.default_rng(2)
+    q, m = 6, 6000
+    x = rng.uniform(0.5, 2.0, m)
+    # d2 / q drawn from F(q, 8): heavier tail than chi-square at the same median
+    d2 = q * stats.f(q, 8).rvs(m, random_state=rng)
+    cal = fit_calibration(d2, x, q)
+    assert 4 < cal.df < 20
+    mapped = chi_square_equivalent(d2 / cal.scale(2 / x, 2 / x), q, cal.df)
+    # source: scipy.stats.chi2; after the mapping the tail rates are the nominal ones
+    for alpha in (0.01, 0.05):
+        assert np.mean(stats.chi2(q).sf(mapped) < alpha) == pytest.approx(alpha, rel=0.3)
+    # chi-square data keep (almost) chi-square: a large df, and the mapping is the identity at 1e6
+    plain = fit_calibration(stats.chi2(q).rvs(m, random_state=rng), x, q)
+    assert plain.df > 50
+    assert np.array_equal(chi_square_equivalent(d2, q, CHI_SQUARE_DF), d2)

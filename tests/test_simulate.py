@@ -110,3 +110,33 @@ def test_spec_refuses_impossible_settings():
         LeagueSpec(n_roles=13)
     with pytest.raises(ValueError, match="blend"):
         LeagueSpec(blend=0.6)
+
+
+def test_default_rules_recover_small_leagues_of_the_family(tmp_path):
+    """A fast subset of benchmarks/role_count.py: defaults, no options, known truth."""
+    import warnings
+
+    from drift.api import fit_model, prepare
+    from drift.config import Config
+    from drift.moves import consecutive_season_pairs, pair_moves
+
+    found = []
+    for n_roles, seed in ((5, 21), (9, 22)):
+        league = simulate_league(LeagueSpec(n_roles=n_roles, n_teams=12, roster=16, n_seasons=3,
+                                            blend=0.3, change_rate=0.08, seed=seed))
+        league.write(tmp_path / str(seed))
+        config = Config(columns=league.columns)
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            prepared = prepare(tmp_path / str(seed), config)
+            model = fit_model(prepared, config)
+        kept = prepared.kept
+        placements = model.place(kept)
+        i1, i2 = consecutive_season_pairs(kept)
+        score = recovery(placements, pair_moves(model, kept, placements, i1, i2), season_truth(league))
+        print(f"\n{n_roles} true roles: found {score['n_roles']}, ARI {score['ari']:.3f}, "
+              f"F1 {score['f1']:.3f}, false flags {score['false_flag']:.4f}")
+        found.append(score["n_roles"])
+        assert abs(score["n_roles"] - n_roles) <= 1
+        assert score["ari"] > 0.8 and score["f1"] > 0.85 and score["false_flag"] <= 0.01
+    assert found.count(5) + found.count(9) >= 1

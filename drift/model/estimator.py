@@ -69,7 +69,9 @@ class RoleModel(FittingSteps, FileMethods):
     role_stability_ : ndarray of shape (k,)
         Mean bootstrap Jaccard overlap of each role.
     within_var_ : float
-        Pooled within-role variance per component (for membership probabilities).
+        Pooled within-role variance per component.
+    within_cov_ : ndarray of shape (q, q)
+        Within-role covariance of true styles (for membership probabilities).
     distance_q99_ : float
         99th percentile of the pool's distances to their nearest role.
     noise_calibration_ : list of two floats
@@ -148,7 +150,8 @@ class RoleModel(FittingSteps, FileMethods):
         processed, state = self._fit_noise(pool)
         z = self._fit_scaler(processed)
         scores = self._fit_components(z)
-        self._fit_roles(scores, processed, settings)
+        labels = self._fit_roles(scores, processed, settings)
+        self._fit_membership(scores, labels, state)
         self._fit_reference(pool, scores)
         self._calibrate_moves(pool, scores, state)
         self._warn_unstable()
@@ -212,15 +215,18 @@ class RoleModel(FittingSteps, FileMethods):
         self._check_fitted()
         return cdist(scores, self.centroids_)
 
-    def memberships(self, distances):
-        """Membership probabilities (n, k) from distances to the roles.
+    def memberships(self, scores, state=None):
+        """Membership probabilities (n, k) of placements ``scores`` with noise ``state``.
 
-        Roles are taken as equal-weight spherical Gaussians with the pool's
-        within-role variance: p_r proportional to exp(-d_r^2 / (2 s^2)).
+        Posterior of Gaussian roles with the true within-role covariance plus the
+        placement's own sampling noise (see :mod:`.membership`); without a state
+        the placements are taken as exact.
         """
-        from scipy.special import softmax
+        from .membership import membership_probabilities, placement_cov
 
-        return softmax(-distances ** 2 / (2 * self.within_var_), axis=1)
+        point = None if state is None else placement_cov(self.loadings(), state)
+        return membership_probabilities(scores, self.centroids_, self.within_cov_,
+                                        self.role_sizes_, point)
 
     def predict(self, table):
         """Nearest role id of every row, shape (n_rows,)."""
@@ -230,7 +236,8 @@ class RoleModel(FittingSteps, FileMethods):
 
     def predict_proba(self, table):
         """Membership probability of every role, shape (n_rows, k), columns in ``role_ids_`` order."""
-        return self.memberships(self.distances(self.transform(table)))
+        processed, state = self.processed(table)
+        return self.memberships(self.scores_from_processed(processed), state)
 
     def move_null(self, noise_from, noise_to):
         """The calibrated null of moves between two :class:`NoiseState` s (see :mod:`.movenoise`)."""

@@ -38,6 +38,7 @@ FIELDS = {
     "explained_variance_ratio": ("float", ("q",)),
     "roles": ("roles", ("k",)),
     "within_var": ("positive", ()),
+    "within_cov": ("float", ("q", "q")),
     "distance_q99": ("float", ()),
     "noise_calibration": ("float", (2,)),
     "calibration_sample": ("positive", ()),
@@ -99,7 +100,8 @@ def to_dict(model) -> dict:
                       model.role_ids_, model.role_names_, model.role_descriptions_,
                       model.role_stability_, model.role_sizes_, model.centroids_,
                       model.centroids_features_)],
-        "within_var": model.within_var_, "distance_q99": model.distance_q99_,
+        "within_var": model.within_var_, "within_cov": arr(model.within_cov_),
+        "distance_q99": model.distance_q99_,
         "noise_calibration": list(model.noise_calibration_),
         "calibration_sample": model.calibration_sample_,
         "calibration_range": list(model.calibration_range_),
@@ -139,6 +141,7 @@ def from_dict(cls, data, *, source="model"):
     model.role_sizes_ = [int(r["size"]) for r in roles]
     model.centroids_features_ = np.asarray([r["centroid_features"] for r in roles], float)
     model.within_var_ = float(data["within_var"])
+    model.within_cov_ = np.asarray(data["within_cov"], float)
     model.distance_q99_ = float(data["distance_q99"])
     model.noise_calibration_ = [float(v) for v in data["noise_calibration"]]
     model.calibration_sample_ = float(data["calibration_sample"])

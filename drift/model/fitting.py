@@ -109,6 +109,13 @@ class FittingSteps:
         self._describe_roles(settings.role_names)
         return labels
 
+    def _fit_membership(self, scores, labels, state):
+        """Within-role covariance of true styles: the pool's scatter less its placement noise."""
+        from .membership import placement_cov, true_within_cov
+
+        self.within_cov_ = true_within_cov(scores, labels, self.centroids_,
+                                           placement_cov(self.loadings(), state))
+
     def _describe_roles(self, given):
         from ..describe import describe_role, name_roles
 
