@@ -152,7 +152,7 @@ def _fixed_roles(x, k, *, seed, n_init, n_boot):
     import pandas as pd
     from sklearn.metrics import calinski_harabasz_score, silhouette_score
 
-    from .selection import RoleChoice, bootstrap_stability
+    from .selection import STABLE_JACCARD, RoleChoice, bootstrap_stability
 
     km = fit_kmeans(x, k, seed=seed, n_init=n_init)
     labels = km.labels_
@@ -167,5 +167,6 @@ def _fixed_roles(x, k, *, seed, n_init, n_boot):
     row["stability_min"], row["stability_mean"] = float(stability.min()), float(stability.mean())
     # the gap statistic compares k with its neighbours: nothing to choose when k is fixed
     row["gap"] = row["gap_se"] = np.nan
-    row["eligible"] = row["chosen"] = True
+    row["stable"] = row["stability_min"] >= STABLE_JACCARD
+    row["chosen"] = True
     return RoleChoice(k, pd.DataFrame([row]), stability, km)

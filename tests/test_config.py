@@ -10,7 +10,9 @@ from drift.errors import ConfigError
 
 def test_defaults():
     c = load_config(None)
-    assert (c.min_games, c.min_minutes_per_game, c.components, c.roles) == (20, 10.0, "parallel", "auto")
+    assert (c.min_games, c.min_minutes_per_game, c.components, c.roles) == (20, 10.0, "variance", "auto")
+    # chosen on the simulated-league family (benchmarks/role_count.py): 90% variance, up to 14 roles
+    assert (c.variance_threshold, c.max_roles) == (0.9, 14)
 
 
 def test_full_file(tmp_path):
