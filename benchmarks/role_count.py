@@ -222,6 +222,8 @@ def main(argv=None):
     parser.add_argument("--start", type=int, default=0, help="first family index (to split a run)")
     parser.add_argument("--held-out", type=int, default=20)
     parser.add_argument("--seeds", type=int, nargs="+", default=[0, 1, 2])
+    parser.add_argument("--held-out-start", type=int, default=HELD_OUT_START,
+                        help="first held-out family index (to split a run)")
     parser.add_argument("--held-out-seeds", type=int, nargs="+", default=None,
                         help="seeds for the held-out leagues (default: --seeds)")
     parser.add_argument("--former-seeds", type=int, nargs="+", default=None,
@@ -236,7 +238,7 @@ def main(argv=None):
                           args.former_seeds)
         held_reps = [r for r in args.reps if r in (DEFAULT[0], FORMER[0])]
         held_seeds = args.held_out_seeds or args.seeds
-        held = _run_set(family(args.held_out, start=HELD_OUT_START), held_seeds, held_reps,
+        held = _run_set(family(args.held_out, start=args.held_out_start), held_seeds, held_reps,
                         Path(f"{out}_held_out.jsonl"), workdir, args.former_seeds)
     summary = {"family": summarise(chosen, args.seeds), "held_out": summarise(held, held_seeds),
                "leagues": args.leagues, "held_out_leagues": args.held_out, "seeds": args.seeds,

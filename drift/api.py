@@ -40,6 +40,8 @@ class Analysis:
     outlook: object = None
     #: drift.backtest.Backtest (per-season scores and calibration tables), or None
     backtest: object = None
+    #: drift.selfcheck.SelfCheck with ``run(..., self_check=N)``, else None
+    self_check: object = None
 
 
 @thread_limited(fitting=True)
@@ -113,7 +115,7 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
 #: every file a run may write into its output folder (besides the marker)
 OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
                 "role_drift.csv", "comparables.csv", "features.csv", "alignment.csv", "outlook.csv",
-                "backtest.csv", "backtest_calibration.csv", "report.html")
+                "backtest.csv", "backtest_calibration.csv", "self_check.csv", "report.html")
 
 
 def write_outputs(analysis: Analysis, folder, *, progress=None):
@@ -133,6 +135,8 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
               ("features.csv", analysis.prepared.reading.feature_table(analysis.model.noise_))]
     if analysis.alignment is not None:
         tables.append(("alignment.csv", analysis.alignment.table))
+    if analysis.self_check is not None:
+        tables.append(("self_check.csv", analysis.self_check.runs))
     if analysis.outlook is not None:
         tables += [("outlook.csv", analysis.outlook), ("backtest.csv", analysis.backtest.seasons),
                    ("backtest_calibration.csv", analysis.backtest.calibration)]
@@ -153,7 +157,7 @@ def check(data, config: Config | None = None):
 
 @thread_limited(fitting=True)
 def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
-        progress=None) -> Analysis:
+        progress=None, self_check: int = 0) -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
     Parameters
@@ -169,6 +173,9 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         Other files the output must not touch (the CLI passes the config file).
     progress : callable or drift.progress.Stages, optional
         Receives a :class:`drift.progress.StageEvent` as each stage starts and ends.
+    self_check : int
+        Simulations of leagues like this one to rerun (:func:`drift.selfcheck.self_check`);
+        0 (default) runs none. Each costs about one fit.
 
     Everything that can be checked is checked before fitting: the output folder (writable,
     not an input, drift's own if it exists), the seasons named in ``config`` and the
@@ -200,6 +207,12 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         alignment = align_models(prev, model)
         model = relabel(model, prev, alignment, keep_names=dict(config.role_names))
     analysis = analyse(prepared, model, config, alignment=alignment, progress=st)
+    if self_check:
+        from .selfcheck import self_check as run_self_check
+
+        with st.stage("self-check", int(self_check)):
+            analysis = dataclasses.replace(analysis, self_check=run_self_check(
+                prepared, model, config, n_sims=int(self_check), seed=config.seed))
     with atomic_folder(out, kind="run", inputs=guarded) as tmp:
         write_outputs(analysis, tmp, progress=st)
     return analysis

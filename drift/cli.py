@@ -186,12 +186,16 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--roles", type=_roles, metavar="K", help="number of roles, or auto (default)")
     run.add_argument("--components", type=_components, metavar="N|FRACTION|RULE",
                      help="components: variance (default, 90%%), parallel, elbow, a count or a fraction")
-    run.add_argument("--noise-policy", choices=("shrink", "weight", "shrink+weight", "none"),
+    run.add_argument("--noise-policy", choices=("shrink", "weight", "shrink+weight", "none",
+                                                "shrink+restandardise"),
                      help="how small samples are handled (default shrink)")
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
     run.add_argument("--alpha", type=_finite, help="level for 'beyond noise' (default 0.01)")
     run.add_argument("--seed", type=_seed, help="random seed (default 0)")
+    run.add_argument("--self-check", type=_count, default=0, metavar="N",
+                     help="simulate N leagues like yours and report how often roles and role changes "
+                          "are recovered (about one fit each; default 0: off)")
     _add_progress_options(run)
 
     place = sub.add_parser("place", help="place season files with a saved model",
@@ -245,11 +249,13 @@ def _run(args):
     from .api import run
 
     analysis = run(args.data, args.out, _config(args), previous=args.previous,
-                   inputs=[args.config] if args.config else (), progress=_progress(args))
+                   inputs=[args.config] if args.config else (), progress=_progress(args),
+                   self_check=int(args.self_check))
     moves = analysis.moves
     changed = int((moves["status"] == "changed").sum()) if len(moves) else 0
+    check = f"\ndrift: {analysis.self_check.sentence}" if analysis.self_check is not None else ""
     return (f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} "
-            f"roles; {changed} role changes beyond noise; report: {args.out}/report.html")
+            f"roles; {changed} role changes beyond noise; report: {args.out}/report.html{check}")
 
 
 def _check(args):

@@ -57,3 +57,22 @@ def test_self_check_recovers_a_clear_league(small_run):
     assert check.recall > 0.7 and check.false_flag < 0.02
     assert check.sentence.startswith("On data like yours, drift recovers 4 roles in 2 of 2 simulations")
     assert np.isfinite(check.change_rate) and check.change_rate >= 0.02
+
+
+def test_cli_run_with_self_check_writes_and_reports_it(tmp_path, capsys):
+    import pandas as pd
+
+    from drift.cli import main
+
+    league = simulate_league(LeagueSpec(n_roles=4, n_teams=6, roster=12, n_seasons=3, seed=12))
+    league.write(tmp_path / "data")
+    columns = "".join(f'{k} = "{v}"\n' for k, v in league.columns.items())
+    (tmp_path / "drift.toml").write_text("[columns]\n" + columns)
+    code = main(["run", str(tmp_path / "data"), "--out", str(tmp_path / "out"), "--config",
+                 str(tmp_path / "drift.toml"), "--roles", "4", "--self-check", "1", "--quiet"])
+    assert code == 0
+    assert "On data like yours, drift recovers 4 roles in" in capsys.readouterr().out
+    runs = pd.read_csv(tmp_path / "out" / "self_check.csv")
+    assert list(runs["simulation"]) == [1] and runs["roles_true"].iloc[0] == 4
+    html = (tmp_path / "out" / "report.html").read_text(encoding="utf-8")
+    assert "would drift find these roles again" in html and "On data like yours" in html

@@ -195,6 +195,9 @@ class ReportContext:
         Per-count diagnostics.
     alignment : list of dict or None
         The match with a previous model's roles.
+    self_check : str
+        With ``--self-check N``: how often roles and role changes were recovered on leagues
+        simulated like this one (:class:`drift.selfcheck.SelfCheck`), in two sentences; "" otherwise.
     noise_note : str
         Calibration of the noise model, in a sentence.
     outlook : list of dict
@@ -290,3 +293,4 @@ class ReportContext:
     calibration: list
     backtest_note: str
     shown: int = 25
+    self_check: str = ""

@@ -83,10 +83,22 @@ def _role_rule(model) -> str:
         return f"{k} roles, fixed by the settings."
     picks = {c: int(rd.loc[rd[f"pick_{c}"], "k"].iloc[0]) for c in
              ("silhouette", "calinski_harabasz", "gap") if f"pick_{c}" in rd and rd[f"pick_{c}"].any()}
-    return (f"{k} roles: silhouette picks {picks.get('silhouette')}, Calinski-Harabasz "
-            f"{picks.get('calinski_harabasz')}, the gap statistic {picks.get('gap')}, among "
-            f"counts whose every role reproduces on bootstrap resamples (Jaccard >= {STABLE_JACCARD}); "
-            "the decision is the count two criteria agree on, else their median.")
+    weak = int((~rd["stable"]).sum()) if "stable" in rd else 0
+    return (f"{k} roles by the gap statistic's one-standard-error rule, the median over three sets of "
+            f"reference draws (up to {model.max_roles} roles tried). Silhouette would pick "
+            f"{picks.get('silhouette')} and Calinski-Harabasz {picks.get('calinski_harabasz')}; they are "
+            "shown, not used, because on blended roles they favour the coarse guards/wings/bigs split. "
+            f"Bootstrap stability (Jaccard >= {STABLE_JACCARD} for every role) is a warning, not a veto"
+            + (f"; {weak} of the counts tried have a role below it." if weak else "."))
+
+
+def _self_check(analysis) -> str:
+    check = getattr(analysis, "self_check", None)
+    if check is None:
+        return ""
+    return (f"{check.sentence} Simulated from this model: its roles, the spread within each, each "
+            f"feature's noise at your players' real minutes, and a yearly role-change rate of "
+            f"{check.change_rate:.0%}; the whole pipeline reran on each (self_check.csv).")
 
 
 def build_choice(analysis, b) -> dict:
@@ -106,4 +118,5 @@ def build_choice(analysis, b) -> dict:
         "components_table": comp.head(max(q + 3, 8)).to_dict(orient="records"),
         "roles_table": rd.to_dict(orient="records"),
         "alignment": alignment.table.to_dict(orient="records") if alignment is not None else None,
+        "self_check": _self_check(analysis),
     }
