@@ -24,7 +24,6 @@ from pathlib import Path
 for _var in ("OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS"):
     os.environ.setdefault(_var, "1")
 
-import numpy as np  # noqa: E402
 import pandas as pd  # noqa: E402
 from scipy.optimize import linear_sum_assignment  # noqa: E402
 from threadpoolctl import threadpool_limits  # noqa: E402
