@@ -66,7 +66,8 @@ def _picks(model):
 
 def _moves(model, kept):
     """Placements and consecutive-season moves (what ``drift.api.analyse`` does for them)."""
-    from drift.moves import consecutive_season_pairs, pair_moves
+    from drift.moves import pair_moves
+    from drift.noise import consecutive_pairs as consecutive_season_pairs
 
     placements = model.place(kept)
     i1, i2 = consecutive_season_pairs(kept)
@@ -151,6 +152,9 @@ def summarise(results, seeds):
                 continue
             k, true = np.array(ks).T
             frame = pd.DataFrame(rec)
+            # a league without real changes has no role-change precision, recall or F1 (a single
+            # false flag would score 0); its false flags are counted in false_flag
+            frame.loc[frame["n_changes"] == 0, ["precision", "recall", "f1"]] = np.nan
             q1 = np.array([r["beyond_0.01_by_quartile"] for r in rec], float)
             q5 = np.array([r["beyond_0.05_by_quartile"] for r in rec], float)
             rows.append({

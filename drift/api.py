@@ -7,7 +7,7 @@ outputs; ``place_files`` places seasons with a saved model.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from .config import Config
@@ -211,7 +211,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         from .selfcheck import self_check as run_self_check
 
         with st.stage("self-check", int(self_check)):
-            analysis = dataclasses.replace(analysis, self_check=run_self_check(
+            analysis = replace(analysis, self_check=run_self_check(
                 prepared, model, config, n_sims=int(self_check), seed=config.seed))
     with atomic_folder(out, kind="run", inputs=guarded) as tmp:
         write_outputs(analysis, tmp, progress=st)

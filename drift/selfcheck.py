@@ -187,7 +187,8 @@ def self_check(prepared, model, config=None, *, n_sims: int = 10, seed: int = 0,
 
     from .api import fit_model
     from .config import Config
-    from .moves import consecutive_season_pairs, pair_moves
+    from .moves import pair_moves
+    from .noise import consecutive_pairs as consecutive_season_pairs
     from .simulate import recovery
 
     config = config or Config()

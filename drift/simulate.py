@@ -388,7 +388,7 @@ def recovery(placements, moves, truth) -> dict:
     dict
         ``n_roles`` (found), ``true_roles``, ``ari`` (adjusted Rand index of roles),
         ``precision``, ``recall``, ``f1`` of ``role_changed`` against a real change of
-        true role (NaN when undefined), ``n_changes``, ``n_pairs``, ``false_flag``
+        true role (NaN when undefined, and all three NaN without any real change), ``n_changes``, ``n_pairs``, ``false_flag``
         (share of pairs without a real change flagged as changed), and
         ``beyond_<alpha>`` (share of no-change pairs with p < alpha, alpha 0.01, 0.05).
     """
@@ -403,9 +403,11 @@ def recovery(placements, moves, truth) -> dict:
     real = (m["a"] != m["b"]).to_numpy()
     flag = m["role_changed"].to_numpy(bool)
     tp = int((real & flag).sum())
-    precision = tp / flag.sum() if flag.sum() else np.nan
+    # with no real change there is nothing to find: precision, recall and F1 are undefined
+    # (a single false flag would score 0) and false_flag says how clean the run was
+    precision = tp / flag.sum() if flag.sum() and real.any() else np.nan
     recall = tp / real.sum() if real.sum() else np.nan
-    f1 = (2 * tp / (flag.sum() + real.sum())) if flag.sum() + real.sum() else np.nan
+    f1 = (2 * tp / (flag.sum() + real.sum())) if real.any() else np.nan
     out = {
         "n_roles": int(placed["role"].nunique()), "true_roles": int(t["true_role"].nunique()),
         "ari": float(adjusted_rand_score(placed["true_role"], placed["role"])),

@@ -118,7 +118,8 @@ def test_default_rules_recover_small_leagues_of_the_family(tmp_path):
 
     from drift.api import fit_model, prepare
     from drift.config import Config
-    from drift.moves import consecutive_season_pairs, pair_moves
+    from drift.moves import pair_moves
+    from drift.noise import consecutive_pairs as consecutive_season_pairs
 
     found = []
     for n_roles, seed in ((5, 21), (9, 22)):
