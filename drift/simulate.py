@@ -19,9 +19,8 @@ possessions of each play type, rates and shooting with noise shrinking as
 Use::
 
     from drift.simulate import family, simulate_league
-    for spec in family(60):                # the family used to choose defaults
-        league = simulate_league(spec)     # rows, truth, profiles
-        league.write("some/folder")        # season CSVs + truth/truth.csv
+    for spec in family(60):   # the family used to choose defaults
+        simulate_league(spec).write("some/folder")   # season CSVs + truth/truth.csv
 
 ``family(n, start=1000)`` gives leagues that were never used to choose anything
 (the held-out set of ``benchmarks/role_count.py``).
@@ -403,8 +402,7 @@ def recovery(placements, moves, truth) -> dict:
     real = (m["a"] != m["b"]).to_numpy()
     flag = m["role_changed"].to_numpy(bool)
     tp = int((real & flag).sum())
-    # with no real change there is nothing to find: precision, recall and F1 are undefined
-    # (a single false flag would score 0) and false_flag says how clean the run was
+    # no real change: nothing to find, so no precision/recall/F1 (false_flag says how clean it was)
     precision = tp / flag.sum() if flag.sum() and real.any() else np.nan
     recall = tp / real.sum() if real.sum() else np.nan
     f1 = (2 * tp / (flag.sum() + real.sum())) if real.any() else np.nan
