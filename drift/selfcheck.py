@@ -179,14 +179,13 @@ def self_check(prepared, model, config=None, *, n_sims: int = 10, seed: int = 0,
     -------
     SelfCheck
     """
-    import dataclasses
     import warnings
 
     import numpy as np
     import pandas as pd
 
-    from .api import fit_model
     from .config import Config
+    from .model import RoleModel
     from .moves import pair_moves
     from .noise import consecutive_pairs as consecutive_season_pairs
     from .simulate import recovery
@@ -201,11 +200,11 @@ def self_check(prepared, model, config=None, *, n_sims: int = 10, seed: int = 0,
     rows = []
     for sim in range(n_sims):
         table, truth = simulate_like(model, kept, change_rate=change_rate, seed=seed + 1000 * (sim + 1))
-        table.attrs["features"] = prepared.features
-        fake = dataclasses.replace(prepared, seasons=table, kept=table, stints=table.iloc[:0])
+        pool = table[table["season"].isin(model.reference_seasons_)].reset_index(drop=True)
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")  # a weak role in a simulation is not the user's concern
-            sim_model = fit_model(fake, config)
+            sim_model = RoleModel.from_settings(config.model).fit(pool, features=prepared.features,
+                                                                  intake=config.intake)
         placed = sim_model.place(table)
         j1, j2 = consecutive_season_pairs(table)
         sim_moves = pair_moves(sim_model, table, placed, j1, j2, alpha=config.alpha)
