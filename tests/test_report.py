@@ -144,7 +144,7 @@ def test_latest_pair_leads_and_labels_are_honest(context, demo_analysis):
 
 def test_membership_never_reads_a_flat_hundred(context, page):
     shown = [r[k] for r in context.latest_moves for k in ("prob_from", "prob_to")]
-    shown += [t["membership"] for p in context.players for t in p["timeline"]]
+    shown += [t["membership"] for p in context.players for t in p["timeline"] if t["placed"]]
     assert "100%" not in shown and ">99%" in shown
     assert "&gt;99%" in page.html
 
@@ -162,7 +162,7 @@ def test_player_page_has_the_answers(context, demo_analysis):
     traded = demo_analysis.stints["player_id"].iloc[0]
     page = next(p for p in context.players if p["id"] == str(traded))
     placed = demo_analysis.placements[demo_analysis.placements["player_id"] == traded]
-    assert [t["season"] for t in page["timeline"]] == sorted(placed["season"])
+    assert [t["season"] for t in page["timeline"] if t["placed"]] == sorted(placed["season"])
     assert page["trades"] and all(m["status"] for m in page["trades"])
     assert len(page["profile"]) == sum(PROFILE_ROWS)
     assert all(0 <= float(f["percentile"]) <= 100 for f in page["profile"])
@@ -257,3 +257,21 @@ def test_arrivals_are_judged_on_every_season_row(context, demo_analysis):
     assert stayed_seen > 0 and len(excluded)  # the demo has returning bench players
     below = [a["other"] for page in context.teams for mv in page["movement"] for a in mv["stayed"]]
     assert any(re.search(r"below the filters \(\d+\.\d minutes per game < 10\)", w) for w in below), below[:3]
+
+
+def test_player_page_says_why_a_season_is_missing_and_shows_stints(context, demo_analysis):
+    ex = demo_analysis.prepared.excluded
+    ex = ex[ex["reason_code"] == "few_minutes"]
+    pages = {p["id"]: p for p in context.players}
+    r = next(r for r in ex.itertuples(index=False) if str(r.player_id) in pages)
+    timeline = pages[str(r.player_id)]["timeline"]
+    assert [t["season"] for t in timeline] == sorted(t["season"] for t in timeline)
+    row = next(t for t in timeline if t["season"] == r.season)
+    assert not row["placed"] and row["why"] == f"{r.minutes_per_game:.1f} minutes per game < 10"
+    # a traded season's row names each qualifying stint's team and role, in stint order
+    s = demo_analysis.stints.iloc[0]
+    row = next(t for t in pages[str(s.player_id)]["timeline"] if t["season"] == s.season_from)
+    assert row["stints"].startswith(f"stints: {s.team_from} {s.role_from} → ")
+    assert f"{s.team_to} {s.role_to}" in row["stints"]
+    html = render_report(context)
+    assert "— not placed: " in html and "stints: " in html

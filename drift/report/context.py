@@ -162,7 +162,8 @@ class ReportContext:
         "A → B" of the requested comparison, or "".
     players : list of dict
         One player page each: ``anchor, id, name, team, role``, ``timeline`` (per season:
-        season, team, role, membership, second, games, minutes, outside, status, words),
+        season, team, placed; placed seasons: role, membership, second, games, minutes, outside,
+        stints ("stints: ELM R4 → BRN R5" or ""), status, words; seasons left out: why),
         ``path`` (SVG Markup), ``profile_season``, ``profile`` (label, value, role_avg,
         percentile, bar, defining), ``moves`` and ``trades`` (move rows), ``comparables``
         (player, anchor, season, team, role) and ``outlook`` (columns, rows) or None.

@@ -85,19 +85,49 @@ def _comparables(comps, b, n=5):
     return out
 
 
-def _timeline(rows, into, b):
+def _stint_words(stints):
+    """(player id, season) -> "stints: ELM R4 → BRN R5", the roles of a traded season's qualifying stints."""
+    if stints is None or not len(stints):
+        return {}
+    chains = {}
+    for r in stints.to_dict(orient="records"):
+        chain = chains.setdefault((r["player_id"], r["season_from"]), {})
+        chain[int(r["stint_from"])] = f"{r['team_from']} {r['role_from']}"
+        chain[int(r["stint_to"])] = f"{r['team_to']} {r['role_to']}"
+    return {key: "stints: " + " → ".join(chain[k] for k in sorted(chain)) for key, chain in chains.items()}
+
+
+def _left_out(analysis, wanted):
+    """Player id -> his seasons the filters left out: season, team, why (in numbers)."""
+    from .fmt import filter_words
+
+    prepared = getattr(analysis, "prepared", None)
+    if prepared is None or prepared.excluded is None or not len(prepared.excluded):
+        return {}
+    ex = prepared.excluded[prepared.excluded["player_id"].isin(wanted)]
+    out = {}
+    for r in ex.to_dict(orient="records"):
+        out.setdefault(r["player_id"], []).append({"season": r["season"], "team": str(r["team"]),
+                                                   "why": filter_words(r, analysis.config)})
+    return out
+
+
+def _timeline(rows, into, b, stint_words=None, left_out=()):
+    """His placed seasons and, in season order among them, the seasons left out with the reason."""
     from .fmt import membership
 
-    out = []
+    stint_words = stint_words or {}
+    out = [{"season": x["season"], "team": x["team"], "placed": False, "why": x["why"]} for x in left_out]
     for r in rows:
         move = into.get((r["player_id"], r["season"]))
-        out.append({"season": r["season"], "team": str(r["team"]),
+        out.append({"season": r["season"], "team": str(r["team"]), "placed": True,
                     "role": b.role(r["role"]),
                     "membership": membership(r["role_prob"]), "second": r.get("second_role", ""),
                     "games": int(r["games"]), "minutes": f"{r['minutes']:,.0f}",
                     "outside": bool(r["out_of_reference"]),
+                    "stints": stint_words.get((r["player_id"], r["season"]), ""),
                     "status": move["status"] if move else "", "words": move["words"] if move else ""})
-    return out
+    return sorted(out, key=lambda t: t["season"])
 
 
 def build_players(analysis, b) -> dict:
@@ -124,6 +154,8 @@ def build_players(analysis, b) -> dict:
     rows_by, into = _group(moves, b)
     outlooks = _outlooks(getattr(analysis, "outlook", None), model)
     comps = _comparables(analysis.comparables, b)
+    stint_words = _stint_words(analysis.stints)
+    left_out = _left_out(analysis, set(b.player_anchor))
     cols = ["player_id", "player", "season", "team", "games", "minutes", "role", "role_prob", "out_of_reference"]
     cols += ["second_role"] if "second_role" in pl else []
     grouped = {}
@@ -139,7 +171,7 @@ def build_players(analysis, b) -> dict:
         role = b.role(last["role"])
         pages.append({
             "anchor": b.player_anchor[pid], "id": str(pid), "name": last["player"], "team": str(last["team"]),
-            "role": role, "timeline": _timeline(rows, into, b),
+            "role": role, "timeline": _timeline(rows, into, b, stint_words, left_out.get(pid, ())),
             "path": Markup(sketch.player_path(frame, [r["season"] for r in rows], scores[pos, 0], scores[pos, 1],
                                               [r["role"] for r in rows], last["player"])),
             "profile_season": last["season"], "profile": profiles.rows(last["role"], values[pos[-1]]),
