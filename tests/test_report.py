@@ -275,3 +275,14 @@ def test_player_page_says_why_a_season_is_missing_and_shows_stints(context, demo
     assert f"{s.team_to} {s.role_to}" in row["stints"]
     html = render_report(context)
     assert "— not placed: " in html and "stints: " in html
+
+
+def test_percentage_point_changes_read_pp(context, page):
+    # "pts" read as points scored; a share's change is in percentage points, said on hover and in a legend
+    from drift.report.moves import _change_text
+
+    assert _change_text("three_pa_rate", -0.591) == "-59.1 pp"
+    assert _change_text("share_spot_up", 0.03) == "+3.0 pp" and _change_text("usage_pct", 2.5) == "+2.5 pp"
+    drivers = " ".join(r["drivers"] for r in context.latest_moves)
+    assert " pp" in drivers and " pts" not in drivers
+    assert 'title="pp = percentage points"' in page.html and "pp = percentage points (a share" in page.body

@@ -41,9 +41,9 @@ def _change_text(name, change):
     if name.startswith("ppp_"):
         return f"{change:+.2f} points per possession"
     if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
-        return f"{100 * change:+.1f} pts"
+        return f"{100 * change:+.1f} pp"  # percentage points ("pts" read as points scored)
     if name.endswith("_pct"):
-        return f"{change:+.1f} pts"
+        return f"{change:+.1f} pp"
     return f"{'+' if change >= 0 else ''}{sig(change, 2)}"
 
 
