@@ -286,3 +286,11 @@ def test_percentage_point_changes_read_pp(context, page):
     drivers = " ".join(r["drivers"] for r in context.latest_moves)
     assert " pp" in drivers and " pts" not in drivers
     assert 'title="pp = percentage points"' in page.html and "pp = percentage points (a share" in page.body
+
+
+def test_p_values_read_at_any_size():
+    from drift.report.fmt import figures_title, p_text
+
+    assert p_text(0.0342) == "0.034" and p_text(2.3e-5) == "2.3e-05" and p_text(1.2e-17) == "< 1e-10"
+    assert figures_title(1.0, 0.5, 9.0, 1.2e-17).endswith("p < 1e-10")
+    assert "0.0000" not in figures_title(1.0, 0.5, 4.0, 3.2e-5)

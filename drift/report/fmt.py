@@ -8,7 +8,7 @@ from __future__ import annotations
 import math
 import re
 
-__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title", "filter_words"]
+__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title", "filter_words", "p_text"]
 
 
 def _missing(v) -> bool:
@@ -83,7 +83,19 @@ def slug(prefix: str, key) -> str:
 def figures_title(distance, noise, z, p_value) -> str:
     """The figures behind a move's words, for hover text."""
     return (f"distance {sig(distance, 3)} (noise alone: {sig(noise, 3)}), z {sig(z, 3)}, "
-            f"p {sig(p_value, 2)}")
+            f"p {p_text(p_value)}")
+
+
+def p_text(p) -> str:
+    """A p-value readable at any size: "p 0.034", "p 1.2e-05", "< 1e-10" (never 0.0000…00012)."""
+    if _missing(p):
+        return ""
+    p = float(p)
+    if p < 1e-10:
+        return "< 1e-10"
+    if p < 1e-3:
+        return f"{p:.1e}"
+    return sig(p, 2)
 
 
 def filter_words(row, config) -> str:
