@@ -46,7 +46,6 @@ def child_bare(data, fmt, out):
     """The naive pooled script; prints its stage times."""
     t = {}
     start = time.perf_counter()
-    import numpy as np
     import pandas as pd
     from sklearn.cluster import KMeans
     from sklearn.decomposition import PCA

@@ -7,11 +7,14 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pytest
+import sklearn.cluster  # noqa: F401  (loads scikit-learn's OpenMP runtime so the limit below reaches it)
 from threadpoolctl import threadpool_limits
 
 # Many tiny K-means and linear-algebra calls: one math-library thread each is
 # faster than an OpenMP region per call, and it cannot be slowed to a crawl by
-# other work on a busy 2-core machine.
+# other work on a busy 2-core machine. Tests that call the selection rules
+# directly (outside the API's own limit) need this too: a pool that is not loaded
+# yet cannot be limited, hence the import above.
 _THREADS = threadpool_limits(limits=1)
 
 ROOT = Path(__file__).resolve().parent.parent
