@@ -228,6 +228,9 @@ def test_caps_keep_a_large_league_bounded(demo_analysis, monkeypatch):
     page = _Page()
     page.feed(html)
     assert set(re.findall(r'href="#([^"]+)"', html)) <= page.ids  # names without a page are plain text
+    # the capping note stands beside the row counter (above the table), not below its rows
+    at = html.index('id="tbl-latest"')
+    assert html.rfind(small.latest_note, 0, at) > html.rfind('data-table="tbl-latest"', 0, at) > 0
 
 
 
