@@ -25,7 +25,8 @@ def main():
         prepared = prepare(tmp)
     pool = reference_pool(prepared).iloc[:3000].reset_index(drop=True)
     start = time.perf_counter()
-    model = RoleModel(components="parallel", roles="auto").fit(pool, features=prepared.features)
+    # the defaults: 90% of variance, the gap consensus for the role count
+    model = RoleModel().fit(pool, features=prepared.features)
     seconds = time.perf_counter() - start
     verdict = "ok" if seconds < 20 else "TOO SLOW"
     print(f"pool {len(pool)} rows x {len(prepared.features)} features: {model.components_.shape[0]} components, "
