@@ -24,45 +24,22 @@ Use::
 
 ``family(n, start=1000)`` gives leagues that were never used to choose anything
 (the held-out set of ``benchmarks/role_count.py``).
+
+The role profiles and the simulated player live in :mod:`drift.sim_roles`
+(``PROFILES`` is re-exported here); this module draws the league around them.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from .sim_roles import PROFILES, SimPlayer, league_profiles, nearest_other
+
 __all__ = ["PROFILES", "LeagueSpec", "SimLeague", "family", "simulate_league", "season_truth",
            "recovery", "NAMINGS", "HELD_OUT_START"]
 
 #: first family index of the held-out leagues (never used to choose a default)
 HELD_OUT_START = 1000
-
-#: role profile -> (play-type shares in demo.PLAY_TYPES order, demo.RATES, demo.SHOOTING)
-PROFILES = {
-    "lead_creator": ((.18, .40, .00, .03, .10, .12, .03, .04, .08, .02),
-                     (29, 33, 2.0, 11, 12.5, 1.6, 0.6), (.575, .36, .32)),
-    "combo_guard": ((.09, .22, .00, .02, .27, .15, .05, .08, .10, .02),
-                    (21, 20, 2.2, 12, 11.5, 1.7, 0.7), (.565, .44, .22)),
-    "spot_up_wing": ((.03, .03, .00, .02, .50, .16, .10, .08, .06, .02),
-                     (15, 8, 2.5, 12, 9.0, 1.4, 0.8), (.580, .64, .13)),
-    "slasher": ((.15, .07, .01, .04, .16, .27, .19, .03, .05, .03),
-                (21, 12, 4.8, 13, 11.5, 1.8, 1.0), (.560, .26, .40)),
-    "rim_runner": ((.00, .00, .37, .07, .03, .10, .23, .00, .02, .18),
-                   (15, 7, 12.0, 22, 13.0, 1.1, 3.8), (.645, .02, .42)),
-    "post_hub": ((.03, .00, .13, .38, .08, .08, .12, .00, .04, .14),
-                 (24, 14, 9.5, 23, 12.5, 1.0, 2.2), (.555, .08, .34)),
-    "stretch_big": ((.02, .00, .16, .11, .37, .08, .10, .03, .06, .07),
-                    (17, 10, 6.0, 20, 10.0, 1.0, 1.8), (.585, .50, .20)),
-    "movement_shooter": ((.02, .04, .00, .01, .30, .10, .06, .32, .13, .02),
-                         (19, 10, 1.8, 10, 8.5, 1.2, 0.4), (.595, .62, .16)),
-    "point_forward": ((.12, .20, .02, .14, .12, .12, .08, .02, .16, .02),
-                      (22, 25, 5.5, 18, 13.5, 1.5, 1.0), (.550, .22, .30)),
-    "perimeter_stopper": ((.02, .03, .00, .01, .44, .28, .14, .02, .04, .02),
-                          (12, 9, 3.5, 14, 8.5, 2.4, 1.4), (.570, .50, .18)),
-    "energy_big": ((.00, .00, .20, .04, .03, .12, .26, .00, .03, .32),
-                   (13, 6, 15.0, 25, 12.0, 1.4, 3.0), (.615, .01, .52)),
-    "isolation_scorer": ((.36, .18, .00, .09, .12, .09, .04, .05, .05, .02),
-                         (31, 17, 2.5, 12, 10.5, 1.2, 0.5), (.555, .34, .38)),
-}
 
 #: column naming variants: drift name -> export name ("standard" keeps drift's names)
 NAMINGS = {
@@ -194,134 +171,78 @@ def family(n: int, *, start: int = 0) -> list:
     return specs
 
 
-def _league_profiles(spec, rng):
-    """Pick ``n_roles`` profiles from the library and perturb them for this league."""
-    import numpy as np
+class _LeagueDraw:
+    """One league being drawn: its generator, roles, teams and seasons, and the rows so far.
 
-    names = list(PROFILES)
-    chosen = sorted(rng.choice(len(names), size=spec.n_roles, replace=False))
-    out = {}
-    for i in chosen:
-        shares, rates, shoot = (np.array(x, float) for x in PROFILES[names[i]])
-        j = spec.profile_jitter
-        shares = shares * np.exp(rng.normal(0, j * 1.5, len(shares))) + 0.002
-        out[names[i]] = (shares / shares.sum(), rates * np.exp(rng.normal(0, j / 2, len(rates))),
-                         shoot + rng.normal(0, j / 4, 3) * np.array([0.1, 0.5, 0.5]))
-    return out
-
-
-def _nearest_other(profiles):
-    """Role -> the other role nearest to it (on shares, rates and shooting in rough sd units)."""
-    import numpy as np
-
-    names = list(profiles)
-    vec = np.array([np.concatenate([s / 0.08, r / np.array([5, 7, 3, 4, 2, .4, .8]), h / np.array([.03, .15, .08])])
-                    for s, r, h in profiles.values()])
-    d = ((vec[:, None] - vec[None]) ** 2).sum(axis=2)
-    np.fill_diagonal(d, np.inf)
-    return {n: names[int(np.argmin(d[i]))] for i, n in enumerate(names)}
-
-
-class _SimPlayer:
-    """A player's truth, shaped like the demo's players so :func:`drift.demo._observe` can draw from it."""
-
-    def __init__(self, pid, name, role, rng, profiles, partner, blend_weight, spread):
-        self.pid, self.name, self.profiles, self.spread = pid, name, profiles, spread
-        self.skill = rng.normal(0.0, 0.05, 10)
-        self.partner = partner
-        self.blend_weight = blend_weight
-        self.role = role
-        self.changed = False
-        self._restyle(rng)
-
-    def _restyle(self, rng):
-        import numpy as np
-
-        shares, rates, shoot = self.profiles[self.role]
-        if self.blend_weight > 0:
-            w = self.blend_weight
-            s2, r2, h2 = self.profiles[self.partner[self.role]]
-            shares, rates, shoot = ((1 - w) * a + w * b for a, b in ((shares, s2), (rates, r2), (shoot, h2)))
-        k = self.spread
-        self.shares = rng.dirichlet(shares * 120 / k ** 2 + 0.05)
-        self.rates = rates * np.exp(rng.normal(0, 0.08 * k, len(rates)))
-        self.shoot = shoot + rng.normal(0, np.array([0.015, 0.035, 0.035]) * k)
-
-    def age_one_season(self, rng):
-        import numpy as np
-
-        self.shares = rng.dirichlet(self.shares * 600 + 0.02)
-        self.rates = self.rates * np.exp(rng.normal(0, 0.025, len(self.rates)))
-        self.shoot = self.shoot + rng.normal(0, [0.006, 0.012, 0.012])
-
-    def change_role(self, rng):
-        others = [r for r in self.profiles if r != self.role]
-        self.role = str(rng.choice(others))
-        self.blend_weight = 0.0
-        self._restyle(rng)
-
-
-def simulate_league(spec: LeagueSpec | None = None) -> SimLeague:
-    """Draw one league of the family.
-
-    Returns
-    -------
-    SimLeague
+    The steps run in a fixed order on one generator, so a seed always gives the same league.
     """
-    import numpy as np
-    import pandas as pd
 
-    from .demo import PLAY_TYPES, RATES, SHOOTING, _TEAMS, _minutes_for, _name, _observe
+    def __init__(self, spec):
+        import numpy as np
 
-    spec = spec or LeagueSpec()
-    rng = np.random.default_rng([spec.seed, 31337])
-    profiles = _league_profiles(spec, rng)
-    partner = _nearest_other(profiles)
-    role_names = list(profiles)
-    role_p = rng.dirichlet(np.full(len(role_names), 8.0))
-    teams = [code for code, _ in _TEAMS[:spec.n_teams]]
-    seasons = [f"{2014 + i}-{(15 + i) % 100:02d}" for i in range(spec.n_seasons)]
-    used, next_id = set(), [1]
+        from .demo import _TEAMS
 
-    def new_player():
-        pid = f"S{next_id[0]:05d}"
-        next_id[0] += 1
+        self.spec = spec
+        self.rng = np.random.default_rng([spec.seed, 31337])
+        self.profiles = league_profiles(spec, self.rng)
+        self.partner = nearest_other(self.profiles)
+        self.role_names = list(self.profiles)
+        self.role_p = self.rng.dirichlet(np.full(len(self.role_names), 8.0))
+        self.teams = [code for code, _ in _TEAMS[:spec.n_teams]]
+        self.seasons = [f"{2014 + i}-{(15 + i) % 100:02d}" for i in range(spec.n_seasons)]
+        self.used, self.next_id = set(), 1
+        self.rows, self.truth = [], []
+
+    def new_player(self):
+        """A newcomer: a fresh id and name, a role drawn from the league's mix, maybe a blend."""
+        from .demo import _name
+
+        spec, rng = self.spec, self.rng
+        pid = f"S{self.next_id:05d}"
+        self.next_id += 1
         weight = float(rng.uniform(0, spec.blend)) if rng.random() < spec.blend_share else 0.0
-        return _SimPlayer(pid, _name(rng, used), str(rng.choice(role_names, p=role_p)), rng,
-                          profiles, partner, weight, spread=spec.spread)
+        return SimPlayer(pid, _name(rng, self.used), str(rng.choice(self.role_names, p=self.role_p)), rng,
+                         self.profiles, self.partner, weight, spread=spec.spread)
 
-    def observe(p, games, minutes, team, season, stint, s_index):
-        games = max(int(round(games * spec.sample)), 1)
-        row = {"player_id": p.pid, "player": p.name, "team": team, "season": season,
-               **_observe(p, games, max(minutes * spec.sample, 1.0), rng, s_index)}
-        rows.append(row)
-        truth.append({"player_id": p.pid, "season": season, "team": team, "stint": stint,
-                      "true_role": p.role, "changed": p.changed,
-                      "blend_role": partner[p.role] if p.blend_weight > 0 else "",
-                      "blend_weight": round(p.blend_weight, 3)})
+    def observe(self, p, games, minutes, team, season, stint, s_index):
+        """One stint's observed row and its truth row."""
+        from .demo import _observe
 
-    rosters = {t: [new_player() for _ in range(spec.roster)] for t in teams}
-    rows, truth, last_team = [], [], {}
-    for s_index, season in enumerate(seasons):
-        if s_index > 0:
-            for t in teams:
-                rosters[t] = [p for p in rosters[t] if rng.random() > 0.09]
-            movers = [(t, p) for t in teams for p in rosters[t] if rng.random() < spec.trade_rate]
-            for t, p in movers:
-                rosters[t].remove(p)
-                dest = [u for u in teams if u != t and len(rosters[u]) < spec.roster] or [t]
-                rosters[str(rng.choice(dest))].append(p)
-            for t in teams:
-                while len(rosters[t]) < spec.roster:
-                    rosters[t].append(new_player())
-                for p in rosters[t]:
-                    p.changed = False
-                    if p.pid in last_team:
-                        p.age_one_season(rng)
-                        moved = last_team[p.pid] != t
-                        if rng.random() < spec.change_rate * (2 if moved else 1):
-                            p.change_role(rng)
-                            p.changed = True
+        games = max(int(round(games * self.spec.sample)), 1)
+        self.rows.append({"player_id": p.pid, "player": p.name, "team": team, "season": season,
+                          **_observe(p, games, max(minutes * self.spec.sample, 1.0), self.rng, s_index)})
+        self.truth.append({"player_id": p.pid, "season": season, "team": team, "stint": stint,
+                           "true_role": p.role, "changed": p.changed,
+                           "blend_role": self.partner[p.role] if p.blend_weight > 0 else "",
+                           "blend_weight": round(p.blend_weight, 3)})
+
+    def offseason(self, rosters, last_team):
+        """Departures, trades and newcomers; returning players age and may change role."""
+        spec, rng, teams = self.spec, self.rng, self.teams
+        for t in teams:
+            rosters[t] = [p for p in rosters[t] if rng.random() > 0.09]
+        movers = [(t, p) for t in teams for p in rosters[t] if rng.random() < spec.trade_rate]
+        for t, p in movers:
+            rosters[t].remove(p)
+            dest = [u for u in teams if u != t and len(rosters[u]) < spec.roster] or [t]
+            rosters[str(rng.choice(dest))].append(p)
+        for t in teams:
+            while len(rosters[t]) < spec.roster:
+                rosters[t].append(self.new_player())
+            for p in rosters[t]:
+                p.changed = False
+                if p.pid in last_team:
+                    p.age_one_season(rng)
+                    moved = last_team[p.pid] != t
+                    if rng.random() < spec.change_rate * (2 if moved else 1):
+                        p.change_role(rng)
+                        p.changed = True
+
+    def play_season(self, rosters, season, s_index) -> dict:
+        """Observe every player's season (two stints when traded mid-season); player -> last team."""
+        from .demo import _minutes_for
+
+        spec, rng, teams = self.spec, self.rng, self.teams
         last_team, traded = {}, []
         for t in teams:
             for rank, i in enumerate(rng.permutation(len(rosters[t]))):
@@ -331,11 +252,11 @@ def simulate_league(spec: LeagueSpec | None = None) -> SimLeague:
                     split = rng.uniform(0.3, 0.7)
                     dest = str(rng.choice([u for u in teams if u != t]))
                     for stint, (team, frac) in enumerate(((t, split), (dest, 1 - split)), start=1):
-                        observe(p, games * frac, minutes * frac, team, season, stint, s_index)
+                        self.observe(p, games * frac, minutes * frac, team, season, stint, s_index)
                     last_team[p.pid] = dest
                     traded.append((t, dest, p))
                 else:
-                    observe(p, games, minutes, t, season, 0, s_index)
+                    self.observe(p, games, minutes, t, season, 0, s_index)
                     last_team[p.pid] = t
         for t, dest, p in traded:
             rosters[t].remove(p)
@@ -343,16 +264,48 @@ def simulate_league(spec: LeagueSpec | None = None) -> SimLeague:
         for t in teams:  # trades leave uneven rosters; trim the longest back to size
             while len(rosters[t]) > spec.roster:
                 rosters[t].pop(int(rng.integers(len(rosters[t]))))
-    frame = pd.DataFrame(rows)
-    if not spec.possessions:
-        frame = frame.drop(columns="possessions")
-    naming = NAMINGS[spec.naming]
-    frame = frame.rename(columns=naming)
-    prof = pd.DataFrame([{"role": r, **{f"share_{t}": v for t, v in zip(PLAY_TYPES, s)},
-                          **dict(zip(RATES, rt)), **dict(zip(SHOOTING, h))}
-                         for r, (s, rt, h) in profiles.items()])
-    columns = {k: v for k, v in naming.items() if v in frame.columns}
-    return SimLeague(spec=spec, rows=frame, truth=pd.DataFrame(truth), profiles=prof, columns=columns)
+        return last_team
+
+    def league(self) -> SimLeague:
+        """The rows under the spec's column names, the truth, and the league's role profiles."""
+        import pandas as pd
+
+        from .demo import PLAY_TYPES, RATES, SHOOTING
+
+        spec = self.spec
+        frame = pd.DataFrame(self.rows)
+        if not spec.possessions:
+            frame = frame.drop(columns="possessions")
+        naming = NAMINGS[spec.naming]
+        frame = frame.rename(columns=naming)
+        prof = pd.DataFrame([{"role": r, **{f"share_{t}": v for t, v in zip(PLAY_TYPES, s)},
+                              **dict(zip(RATES, rt)), **dict(zip(SHOOTING, h))}
+                             for r, (s, rt, h) in self.profiles.items()])
+        columns = {k: v for k, v in naming.items() if v in frame.columns}
+        return SimLeague(spec=spec, rows=frame, truth=pd.DataFrame(self.truth), profiles=prof, columns=columns)
+
+
+def simulate_league(spec: LeagueSpec | None = None) -> SimLeague:
+    """Draw one league of the family.
+
+    Parameters
+    ----------
+    spec : LeagueSpec, optional
+        The league's parameters (default: ``LeagueSpec()``); the same spec always
+        gives the same league.
+
+    Returns
+    -------
+    SimLeague
+    """
+    draw = _LeagueDraw(spec or LeagueSpec())
+    rosters = {t: [draw.new_player() for _ in range(draw.spec.roster)] for t in draw.teams}
+    last_team = {}
+    for s_index, season in enumerate(draw.seasons):
+        if s_index > 0:
+            draw.offseason(rosters, last_team)
+        last_team = draw.play_season(rosters, season, s_index)
+    return draw.league()
 
 
 def season_truth(league: SimLeague):
