@@ -1,6 +1,6 @@
 """Excel workbooks: find the data sheet(s) and the header row, read them whole or refuse.
 
-A sheet is a *data sheet* when one of its first :data:`~drift.readers.MAX_HEADER_ROW`
+A sheet is a *data sheet* when one of its first :data:`~drift.rawtables.MAX_HEADER_ROW`
 rows names every required column (after the config's ``[columns]`` map and drift's
 name rules). Title rows above that header are skipped; sheets without such a row
 (notes, read-me, pivot sheets) are skipped and said so. Several data sheets are
@@ -13,7 +13,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from .errors import InputError
-from .readers import MAX_HEADER_ROW, RawTable, _refuse_duplicates, season_label
+from .rawtables import MAX_HEADER_ROW, RawTable, refuse_duplicates, season_label
 
 __all__ = ["read_workbook"]
 
@@ -55,7 +55,7 @@ def _table(raw, header_at, where):
             continue
         keep.append(j)
         names.append(text)
-    _refuse_duplicates(names, where)
+    refuse_duplicates(names, where)
     frame = body.iloc[:, keep].copy()
     frame.columns = names
     return frame.reset_index(drop=True)
