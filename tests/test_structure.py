@@ -11,12 +11,6 @@ MODULES = sorted(DRIFT.rglob("*.py"))
 # limits from DEVELOPERS.md, "Rules the code keeps" (house rule, no source)
 MAX_MODULE, MAX_CLASS, MAX_FUNCTION = 400, 250, 80
 
-# Debts being paid, each with the size it may not grow past; remove an entry when it is split.
-KNOWN_OVER = {
-    "drift.simulate": 418,
-    "drift.simulate.simulate_league": 92,
-}
-
 
 def _name(path: Path) -> str:
     parts = list(path.relative_to(DRIFT.parent).with_suffix("").parts)
@@ -27,30 +21,15 @@ def test_no_module_class_or_function_too_long():
     too_long = []
     for path in MODULES:
         text = path.read_text(encoding="utf-8")
-        if len(text.splitlines()) > KNOWN_OVER.get(_name(path), MAX_MODULE):
+        if len(text.splitlines()) > MAX_MODULE:
             too_long.append(f"{_name(path)}: {len(text.splitlines())} lines")
         for node in ast.walk(ast.parse(text)):
             limit = (MAX_CLASS if isinstance(node, ast.ClassDef)
                      else MAX_FUNCTION if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef))
                      else None)
-            if limit is not None and node.end_lineno - node.lineno + 1 > KNOWN_OVER.get(
-                    f"{_name(path)}.{node.name}", limit):
+            if limit is not None and node.end_lineno - node.lineno + 1 > limit:
                 too_long.append(f"{_name(path)}.{node.name}: {node.end_lineno - node.lineno + 1} lines")
     assert not too_long, too_long
-
-
-def test_known_debts_are_still_debts():
-    """An entry in KNOWN_OVER whose code is now within the limits must be removed."""
-    sizes = {}
-    for path in MODULES:
-        text = path.read_text(encoding="utf-8")
-        sizes[_name(path)] = len(text.splitlines())
-        for node in ast.walk(ast.parse(text)):
-            if isinstance(node, (ast.ClassDef, ast.FunctionDef, ast.AsyncFunctionDef)):
-                sizes[f"{_name(path)}.{node.name}"] = node.end_lineno - node.lineno + 1
-    paid = [name for name in KNOWN_OVER if sizes.get(name, 0) <= 80 or (
-        "." not in name.removeprefix("drift.") and sizes.get(name, 0) <= MAX_MODULE)]
-    assert not paid, f"within the limits now, remove from KNOWN_OVER: {paid}"
 
 
 def _imports(path: Path) -> set:
@@ -75,13 +54,9 @@ def _imports(path: Path) -> set:
     return found
 
 
-# Import edges of a known cycle being untangled (an import inside a function, so it runs).
-KNOWN_CYCLE_EDGES = {("drift.readers", "drift.workbooks")}
-
-
 def test_no_import_cycles():
     names = {_name(p): p for p in MODULES}
-    graph = {n: {m for m in _imports(p) if m in names and m != n and (n, m) not in KNOWN_CYCLE_EDGES}
+    graph = {n: {m for m in _imports(p) if m in names and m != n}
              for n, p in names.items()}
     # a package's __init__ re-exporting its own modules is not a cycle of stages
     graph = {n: {m for m in deps if not n.startswith(m + ".")} for n, deps in graph.items()}
