@@ -12,24 +12,14 @@ Everything is invented: the profiles are numbers written for this code.
 
 from __future__ import annotations
 
+from .demo import ARCHETYPES
+
 __all__ = ["PROFILES", "SimPlayer", "league_profiles", "nearest_other"]
 
-#: role profile -> (play-type shares in demo.PLAY_TYPES order, demo.RATES, demo.SHOOTING)
+#: role profile -> (play-type shares in demo.PLAY_TYPES order, demo.RATES, demo.SHOOTING):
+#: the demo league's seven archetypes (same values, same order), then five more
 PROFILES = {
-    "lead_creator": ((.18, .40, .00, .03, .10, .12, .03, .04, .08, .02),
-                     (29, 33, 2.0, 11, 12.5, 1.6, 0.6), (.575, .36, .32)),
-    "combo_guard": ((.09, .22, .00, .02, .27, .15, .05, .08, .10, .02),
-                    (21, 20, 2.2, 12, 11.5, 1.7, 0.7), (.565, .44, .22)),
-    "spot_up_wing": ((.03, .03, .00, .02, .50, .16, .10, .08, .06, .02),
-                     (15, 8, 2.5, 12, 9.0, 1.4, 0.8), (.580, .64, .13)),
-    "slasher": ((.15, .07, .01, .04, .16, .27, .19, .03, .05, .03),
-                (21, 12, 4.8, 13, 11.5, 1.8, 1.0), (.560, .26, .40)),
-    "rim_runner": ((.00, .00, .37, .07, .03, .10, .23, .00, .02, .18),
-                   (15, 7, 12.0, 22, 13.0, 1.1, 3.8), (.645, .02, .42)),
-    "post_hub": ((.03, .00, .13, .38, .08, .08, .12, .00, .04, .14),
-                 (24, 14, 9.5, 23, 12.5, 1.0, 2.2), (.555, .08, .34)),
-    "stretch_big": ((.02, .00, .16, .11, .37, .08, .10, .03, .06, .07),
-                    (17, 10, 6.0, 20, 10.0, 1.0, 1.8), (.585, .50, .20)),
+    **ARCHETYPES,
     "movement_shooter": ((.02, .04, .00, .01, .30, .10, .06, .32, .13, .02),
                          (19, 10, 1.8, 10, 8.5, 1.2, 0.4), (.595, .62, .16)),
     "point_forward": ((.12, .20, .02, .14, .12, .12, .08, .02, .16, .02),
