@@ -31,7 +31,7 @@ from threadpoolctl import threadpool_limits  # noqa: E402
 from drift.api import prepare  # noqa: E402
 from drift.config import Config  # noqa: E402
 from drift.model import RoleModel  # noqa: E402
-from drift.simulate import family, season_truth, simulate_league  # noqa: E402
+from drift.sim.family import family, season_truth, simulate_league  # noqa: E402
 
 BINS = (0.0, 0.5, 0.6, 0.7, 0.8, 0.9, 0.99, 1.0001)
 

@@ -28,10 +28,10 @@ import pandas as pd
 from threadpoolctl import threadpool_limits
 
 from drift.api import fit_model, prepare
-from drift.backtest import backtest
 from drift.config import Config
-from drift.demo import generate_league, write_league
-from drift.inseason import check_partial
+from drift.measure.inseason import check_partial
+from drift.outlook.backtest import backtest
+from drift.sim.demo import generate_league, write_league
 
 ALPHA = 0.01
 GAMES = (10, 20, 40)
@@ -92,7 +92,7 @@ def main(argv=None):
             bt = outlook_scores(model, prepared)
             back_rows.append(bt.seasons.assign(league=f"demo seed {seed}"))
             probs.append(bt)
-        from drift.simulate import HELD_OUT_START, family, simulate_league
+        from drift.sim.family import HELD_OUT_START, family, simulate_league
 
         for spec in family(n_family, start=HELD_OUT_START):
             league = simulate_league(spec)

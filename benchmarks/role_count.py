@@ -42,7 +42,7 @@ from threadpoolctl import threadpool_limits  # noqa: E402
 from drift.api import prepare  # noqa: E402
 from drift.config import Config  # noqa: E402
 from drift.model import RoleModel  # noqa: E402
-from drift.simulate import HELD_OUT_START, family, recovery, season_truth, simulate_league  # noqa: E402
+from drift.sim.family import HELD_OUT_START, family, recovery, season_truth, simulate_league  # noqa: E402
 
 #: representation name -> RoleModel settings (the component rule and the noise policy)
 REPRESENTATIONS = {
@@ -66,8 +66,8 @@ def _picks(model):
 
 def _moves(model, kept):
     """Placements and consecutive-season moves (what ``drift.api.analyse`` does for them)."""
-    from drift.moves import pair_moves
-    from drift.noise import consecutive_pairs as consecutive_season_pairs
+    from drift.measure.moves import pair_moves
+    from drift.model.noise import consecutive_pairs as consecutive_season_pairs
 
     placements = model.place(kept)
     i1, i2 = consecutive_season_pairs(kept)

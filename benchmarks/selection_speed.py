@@ -12,8 +12,8 @@ import time
 from pathlib import Path
 
 from drift.api import prepare, reference_pool
-from drift.demo import generate_league, write_league
 from drift.model import RoleModel
+from drift.sim.demo import generate_league, write_league
 
 
 def main():

@@ -20,7 +20,7 @@ import warnings
 
 
 def fit_with_bound(prepared, bound, config=None):
-    import drift.workload as workload
+    import drift.model.counting as workload
     from drift.api import fit_model
 
     saved = workload.ROLE_SWEEP_ROWS
@@ -40,7 +40,7 @@ def main(argv=None):
 
     from drift.api import prepare
     from drift.config import Config
-    from drift.simulate import HELD_OUT_START, family, simulate_league
+    from drift.sim.family import HELD_OUT_START, family, simulate_league
 
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--leagues", type=int, default=6)

@@ -7,15 +7,17 @@ costs nothing.
 __version__ = "0.1.0"
 
 __all__ = [
-    "RoleModel", "Config", "load_config", "read_seasons", "prepare", "run", "place_files",
-    "align_models", "DriftError", "InputError", "ConfigError", "ModelFileError",
+    "run", "analyse", "fit_model", "check", "place", "prepare", "place_files", "check_files",
+    "RoleModel", "Config", "load_config", "read_seasons", "align_models", "DriftError", "InputError", "ConfigError", "ModelFileError",
     "NotFittedError", "DriftWarning", "DataQualityWarning", "ModelQualityWarning",
     "__version__",
 ]
 
 _WHERE = {
+    "run": "api", "analyse": "api", "fit_model": "api", "check": "api", "place": "api", "prepare": "api",
+    "place_files": "api", "check_files": "api",
     "RoleModel": "model", "Config": "config", "load_config": "config", "read_seasons": "intake",
-    "prepare": "api", "run": "api", "place_files": "api", "align_models": "align",
+    "align_models": "model.align",
 }
 
 

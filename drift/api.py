@@ -9,55 +9,70 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from .config import Config
-from .errors import InputError
-from .placing import check_files, place_files
-from .preflight import check_distinct, check_regular, check_settings
-from .preparing import Prepared, _as_list, prepare, reference_pool
-from .progress import stages
-from .threads import thread_limited
+from drift.config import Config
+from drift.errors import InputError
+from drift.intake.preflight import check_distinct, check_regular, check_settings
+from drift.intake.prepare import Prepared, _as_list, prepare, reference_pool
+from drift.placing import check_files, place, place_files
+from drift.progress import stages
+from drift.threads import thread_limited
 
-__all__ = ["check", "Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place_files", "check_files",
-           "write_outputs"]
+if TYPE_CHECKING:  # pragma: no cover - annotations only; nothing heavy loads at import
+    import pandas as pd
+
+    from drift.model import Alignment, RoleModel
+    from drift.outlook import Backtest
+    from drift.sim import SelfCheck
+
+__all__ = ["check", "Prepared", "Analysis", "prepare", "fit_model", "analyse", "run", "place", "place_files",
+           "check_files", "write_outputs"]
 
 
 @dataclass(frozen=True)
 class Analysis:
     """Everything a run produces (each a DataFrame, except ``model``)."""
 
-    model: object
-    placements: object
-    moves: object
-    stints: object
-    role_drift: object
-    comparables: object
-    alignment: object = None
+    model: RoleModel
+    placements: pd.DataFrame
+    moves: pd.DataFrame
+    stints: pd.DataFrame
+    role_drift: pd.DataFrame
+    comparables: pd.DataFrame
+    alignment: Alignment | None = None
     prepared: Prepared | None = None
     config: Config = field(default_factory=Config)
     #: next-season outlook of every player placed in the latest season (columns:
     #: drift.outlook.OUTLOOK_COLUMNS, then prob_<role>, exp_pc<j>); None with too few returning players
-    outlook: object = None
-    #: drift.backtest.Backtest (per-season scores and calibration tables), or None
-    backtest: object = None
-    #: drift.selfcheck.SelfCheck with ``run(..., self_check=N)``, else None
-    self_check: object = None
+    outlook: pd.DataFrame | None = None
+    #: drift.outlook.Backtest (per-season scores and calibration tables), or None
+    backtest: Backtest | None = None
+    #: drift.sim.SelfCheck with ``run(..., self_check=N)``, else None
+    self_check: SelfCheck | None = None
+
+    @property
+    def n_changed(self) -> int:
+        """Moves judged a role change beyond noise."""
+        return int((self.moves["status"] == "changed").sum()) if len(self.moves) else 0
+
+    def summary(self) -> str:
+        """One line: player-seasons placed, roles, role changes beyond noise (the CLI prints it)."""
+        return (f"placed {len(self.placements)} player-seasons in {len(self.model.role_ids_)} roles; "
+                f"{self.n_changed} role changes beyond noise")
 
 
 @thread_limited(fitting=True)
 def fit_model(prepared: Prepared, config: Config | None = None, *, progress=None):
     """Fit the reference model on the pool chosen by ``config.reference``."""
-    from .model import RoleModel
+    from drift.model import RoleModel
 
     config = config or Config()
     check_settings(prepared, config)
     pool = reference_pool(prepared, config.reference)
     model = RoleModel.from_settings(config.model)
-    try:
-        with stages(progress).stage("fit reference model", len(pool)):
-            return model.fit(pool, features=prepared.features, intake=config.intake)
-    except ValueError as exc:
-        raise InputError(str(exc)) from None
+    with stages(progress).stage("fit reference model", len(pool)):
+        return model.fit(pool, features=prepared.features, intake=config.intake)
 
 
 @thread_limited(fitting=True)
@@ -66,11 +81,11 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
     """Place every qualifying season and stint, measure moves, role drift and comparables."""
     import pandas as pd
 
-    from .backtest import season_outlook
-    from .comparables import run_comparables
-    from .moves import pair_moves, requested_pairs, stint_pairs
-    from .noise import consecutive_pairs
-    from .roledrift import role_drift
+    from drift.measure.comparables import run_comparables
+    from drift.measure.moves import pair_moves, requested_pairs, stint_pairs
+    from drift.measure.role_drift import role_drift
+    from drift.model.noise import consecutive_pairs
+    from drift.outlook.backtest import season_outlook
 
     config = config or Config()
     st = stages(progress)
@@ -123,8 +138,8 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 
     CSV text cells are neutralised for spreadsheets (:mod:`drift.safecsv`).
     """
-    from .report import write_report
-    from .safecsv import write_csv
+    from drift.output.tables import write_csv
+    from drift.report import write_report
 
     folder = Path(folder)
     st = stages(progress)
@@ -149,7 +164,7 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 
 def check(data, config: Config | None = None):
     """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.datacheck.DataCheck`."""
-    from .datacheck import check_data
+    from drift.intake.dry_run import check_data
     check_regular(_as_list(data))
     check_distinct(_as_list(data))
     return check_data(lambda: prepare(data, config), config or Config(), check_settings)
@@ -185,9 +200,9 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     -------
     Analysis
     """
-    from .align import align_models, relabel
-    from .model import RoleModel
-    from .outputs import atomic_folder, check_output_folder
+    from drift.model import RoleModel
+    from drift.model.align import align_models, relabel
+    from drift.output.folders import atomic_folder, check_output_folder
 
     config = config or Config()
     st = stages(progress)
@@ -208,7 +223,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
         model = relabel(model, prev, alignment, keep_names=dict(config.role_names))
     analysis = analyse(prepared, model, config, alignment=alignment, progress=st)
     if self_check:
-        from .selfcheck import self_check as run_self_check
+        from drift.sim.selfcheck import self_check as run_self_check
 
         with st.stage("self-check", int(self_check)):
             analysis = replace(analysis, self_check=run_self_check(

@@ -58,7 +58,7 @@ def _positive(text: str):
 
 
 def _seed(text: str):
-    from .settings_rules import MAX_SEED
+    from drift.settings_rules import MAX_SEED
 
     try:
         value = int(text)
@@ -135,7 +135,7 @@ class _Parser(argparse.ArgumentParser):
         return f"unknown option{'s' if len(found) > 1 else ''} {', '.join(found)}{hint}"
 
     def error(self, message):
-        from .messages import printable
+        from drift.messages import printable
 
         if message.startswith("the following arguments are required"):
             message = self._unknown(self._given, to_end=False) or message
@@ -161,13 +161,13 @@ def _progress(args):
     """Stage reporter for long runs: on a terminal unless --quiet, elsewhere only with --progress."""
     if args.quiet or not (args.progress or sys.stderr.isatty()):
         return None
-    from .progress import TerminalProgress
+    from drift.progress import TerminalProgress
 
     return TerminalProgress(sys.stderr)
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from . import __version__
+    from drift import __version__
 
     parser = _Parser(
         prog="drift", description="Season-over-season role drift for basketball front offices.")
@@ -229,8 +229,8 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def _config(args):
-    from .config import load_config
-    from .preflight import check_regular
+    from drift.config import load_config
+    from drift.intake.preflight import check_regular
 
     check_regular([args.config])
     config = load_config(args.config)
@@ -246,36 +246,29 @@ def _config(args):
 
 
 def _run(args):
-    from .api import run
+    from drift.api import run
 
     analysis = run(args.data, args.out, _config(args), previous=args.previous,
                    inputs=[args.config] if args.config else (), progress=_progress(args),
                    self_check=int(args.self_check))
-    moves = analysis.moves
-    changed = int((moves["status"] == "changed").sum()) if len(moves) else 0
     check = f"\ndrift: {analysis.self_check.sentence}" if analysis.self_check is not None else ""
-    return (f"drift: placed {len(analysis.placements)} player-seasons in {len(analysis.model.role_ids_)} "
-            f"roles; {changed} role changes beyond noise; report: {args.out}/report.html{check}")
+    return f"drift: {analysis.summary()}; report: {args.out}/report.html{check}"
 
 
 def _check(args):
-    from .api import check_files
+    from drift.api import check_files
 
-    checks = check_files(args.model, args.files, args.against, args.out, _config(args),
-                         min_games=args.min_games, min_minutes_per_game=args.min_minutes, alpha=args.alpha,
-                         season_games=args.season_games, inputs=[args.config] if args.config else ()).checks
-    counts = checks["status"].value_counts()
-    shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
-    return (f"drift: checked {len(checks)} players against their last season ({shown or 'none beyond noise'}); "
-            f"page: {args.out}/inseason.html")
+    checked = check_files(args.model, args.files, args.against, args.out, _config(args),
+                          min_games=args.min_games, min_minutes_per_game=args.min_minutes, alpha=args.alpha,
+                          season_games=args.season_games, inputs=[args.config] if args.config else ())
+    return f"drift: {checked.summary()}"
 
 
 def _check_data(args):
-    from .api import check
-    from .datacheck import format_check
-    from .errors import InputError
-
-    from .messages import printable
+    from drift.api import check
+    from drift.errors import InputError
+    from drift.intake.dry_run import format_check
+    from drift.messages import printable
 
     result = check(args.data, _config(args))
     print("\n".join(printable(line) for line in format_check(result).splitlines()))  # names are the user's
@@ -285,7 +278,7 @@ def _check_data(args):
 
 
 def _place(args):
-    from .api import place_files
+    from drift.api import place_files
 
     if args.against:
         return _check(args)
@@ -293,15 +286,12 @@ def _place(args):
     placed = place_files(args.model, args.files, args.out, _config(args),
                          min_games=args.min_games, min_minutes_per_game=args.min_minutes,
                          inputs=[args.config] if args.config else (), progress=_progress(args))
-    note = ""
-    if len(placed.excluded):
-        note = f"; {len(placed.excluded)} excluded by the filters, listed in {placed.excluded_path}"
-    return f"drift: placed {len(placed.placements)} player-seasons; wrote {args.out}{note}"
+    return f"drift: {placed.summary()}"
 
 
 def _demo(args):
-    from .demo import generate_league, write_league
-    from .outputs import atomic_folder
+    from drift.output.folders import atomic_folder
+    from drift.sim.demo import generate_league, write_league
 
     with atomic_folder(args.out, kind="demo") as tmp:  # checked first: never over a folder of real seasons
         files = write_league(tmp, generate_league(args.seed, partial_games=args.partial_games))
@@ -314,7 +304,7 @@ def main(argv=None) -> int:
     0 done; 2 a refused input or any other failure (one ``drift: error:`` line); 130
     interrupted by Ctrl-C, 143 by SIGTERM; 141 the reader of the output went away (quietly).
     """
-    from .messages import run_guarded
+    from drift.messages import run_guarded
 
     args = build_parser().parse_args(argv)
     return run_guarded({"run": _run, "place": _place, "check": _check_data, "demo": _demo}[args.command], args,

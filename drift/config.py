@@ -56,125 +56,18 @@ from __future__ import annotations
 
 import dataclasses
 import tomllib
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 
-from . import settings_rules as rules
-from .errors import ConfigError
+from drift import settings_rules as rules
+from drift.errors import ConfigError
+from drift.intake.policy import REQUIRED_COLUMNS, STANDARD_COLUMNS, IntakePolicy
+from drift.measure.settings import MoveSettings
+from drift.model.settings import COMPONENT_RULES, NOISE_POLICIES, ModelSettings
 
 __all__ = ["Config", "IntakePolicy", "ModelSettings", "MoveSettings", "load_config",
-           "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
+           "STANDARD_COLUMNS", "REQUIRED_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
 
-STANDARD_COLUMNS = rules.STANDARD_COLUMNS
-REQUIRED_COLUMNS = ("player_id", "season", "team", "games", "minutes")
-NOISE_POLICIES = rules.NOISE_POLICIES
-COMPONENT_RULES = rules.COMPONENT_RULES
-
-
-class _Part:
-    """Validation and plain-dict conversion shared by the parts."""
-
-    _rules: dict = {}
-
-    def __post_init__(self):
-        for f in dataclasses.fields(self):
-            object.__setattr__(self, f.name, self._rules[f.name](f.name, getattr(self, f.name)))
-
-    def to_dict(self) -> dict:
-        return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}
-
-    @classmethod
-    def from_dict(cls, body: dict):
-        return cls(**body)
-
-
-@dataclass(frozen=True)
-class IntakePolicy(_Part):
-    """How season files are read and which rows qualify."""
-
-    columns: dict = field(default_factory=dict)
-    total_marker: str | None = "TOT"
-    features: tuple | None = None
-    exclude: tuple = ()
-    sheet: str | None = None
-    read: dict = field(default_factory=dict)
-    units: dict = field(default_factory=dict)
-    rename: dict = field(default_factory=dict)
-    play_types: dict = field(default_factory=dict)
-    min_games: float = 20
-    min_minutes_per_game: float = 10.0
-    min_stint_games: float = 10
-
-    _rules = {
-        "columns": rules.columns, "total_marker": rules.optional_text,
-        "features": rules.optional_names, "exclude": rules.names, "sheet": rules.optional_text,
-        "read": rules.text_map, "units": rules.text_map, "rename": rules.text_map,
-        "play_types": rules.text_map,
-        "min_games": rules.non_negative, "min_minutes_per_game": rules.non_negative,
-        "min_stint_games": rules.non_negative,
-    }
-
-    def __post_init__(self):
-        super().__post_init__()
-        _check_intake_rules(self)
-
-    #: what the model file records about the intake (the filters, the marker and the rules)
-    _MODEL_FILE_KEYS = ("min_games", "min_minutes_per_game", "total_marker")
-
-    def to_model_file(self) -> dict:
-        """The intake as the model file records it: the filters, the marker and the fixed rules."""
-        from .constants import INTAKE_RULES_TEXT
-
-        return {"min_games": self.min_games, "min_minutes_per_game": self.min_minutes_per_game,
-                "total_marker": self.total_marker, **INTAKE_RULES_TEXT,
-                "min_stint_games": self.min_stint_games}
-
-    @classmethod
-    def from_model_file(cls, body: dict, *, where="model"):
-        """Rebuild from :meth:`to_model_file` output (the rule texts are descriptive only)."""
-        from .constants import INTAKE_RULES_TEXT
-        from .errors import DriftError, ModelFileError
-
-        known = set(cls._MODEL_FILE_KEYS) | set(INTAKE_RULES_TEXT) | {"min_stint_games"}
-        unknown = sorted(set(body) - known)
-        if unknown:
-            raise ModelFileError(f"{where}: unknown setting(s) {unknown}; known: {sorted(known)}")
-        try:
-            return cls(**{k: v for k, v in body.items() if k not in INTAKE_RULES_TEXT})
-        except DriftError as exc:
-            raise ModelFileError(f"{where}: {exc}") from None
-
-
-@dataclass(frozen=True)
-class ModelSettings(_Part):
-    """The reference model's settings (see :class:`drift.model.RoleModel`)."""
-
-    components: object = "variance"
-    variance_threshold: float = 0.90
-    roles: object = "auto"
-    max_roles: int = 14
-    noise_policy: str = "shrink"
-    seed: int = 0
-    n_init: int = rules.KMEANS_RESTARTS
-    n_bootstrap: int = 20
-    role_names: dict = field(default_factory=dict)
-
-    _rules = {
-        "components": rules.components, "variance_threshold": rules.fraction_closed,
-        "roles": rules.roles, "max_roles": rules.count_from(2), "noise_policy": rules.noise_policy,
-        "seed": rules.seed, "n_init": rules.count_from(1),
-        "n_bootstrap": rules.count_from(1), "role_names": rules.text_map,
-    }
-
-
-@dataclass(frozen=True)
-class MoveSettings(_Part):
-    """How moves are judged: the level for "beyond noise" and an extra season pair."""
-
-    alpha: float = 0.01
-    compare: tuple | None = None
-
-    _rules = {"alpha": rules.fraction_open, "compare": rules.compare}
 
 
 _PARTS = {"intake": IntakePolicy, "model": ModelSettings, "moves": MoveSettings}
@@ -224,34 +117,6 @@ class Config:
             if key in changes:
                 parts[key] = changes.pop(key)
         return Config(**parts, reference=reference, **changes)
-
-
-def _check_intake_rules(policy):
-    """Validate the column-reading rules of [intake] (see drift.columns, drift.units)."""
-    from .columns import parse_read_rule, understand_columns
-    from .units import UNIT_WORDS
-
-    for pattern, spec in policy.read.items():
-        try:
-            parse_read_rule(spec)
-        except ValueError as exc:
-            raise ConfigError(f"[intake.read] {pattern!r}: {exc}") from None
-    for name, unit in policy.units.items():
-        allowed = ("total", "per_game") if name in ("minutes", "possessions") else ("percent", "fraction")
-        if unit not in allowed or unit not in UNIT_WORDS:
-            raise ConfigError(f"[intake.units] {name} = {unit!r}: give one of {', '.join(allowed)}")
-    for old, new in policy.rename.items():
-        if not str(new).strip():
-            raise ConfigError(f"[intake.rename] {old} = {new!r}: give a name")
-        before = understand_columns([old], Config())[0]
-        after = understand_columns([new], Config())[0]
-        if {before.family, after.family} & {"share", "efficiency"} and (before.family, before.play_type) != (
-                after.family, after.play_type):
-            raise ConfigError(f"[intake.rename] {old} = {new!r}: a play-type feature keeps its form "
-                              f"(share_<type> or ppp_<type>) so its sample stays linked; rename the play type "
-                              "under [intake] play_types instead")
-    if policy.sheet is not None and not str(policy.sheet).strip():
-        raise ConfigError("[intake] sheet must name a sheet")
 
 
 _SECTIONS = {
@@ -306,11 +171,3 @@ def load_config(path=None) -> Config:
         return Config(**values)
     except ConfigError as exc:
         raise ConfigError(f"{path}: {exc}") from None
-
-
-def _plain(value):
-    if isinstance(value, dict):
-        return dict(value)
-    if isinstance(value, tuple):
-        return list(value)
-    return value

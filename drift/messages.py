@@ -58,7 +58,7 @@ def warning_lines(records) -> list:
     """
     import re
 
-    from .errors import DriftWarning
+    from drift.errors import DriftWarning
 
     counts, order, first = {}, [], {}
     for w in records:
@@ -114,7 +114,7 @@ def _silence_stdout():
 
 def _call(func, args, debug):
     """Run ``func(args)``; return (exit code, final line or None, stream of that line)."""
-    from .errors import DriftError
+    from drift.errors import DriftError
 
     try:
         return 0, func(args), sys.stdout

@@ -5,14 +5,19 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from .config import Config
-from .preflight import check_distinct, check_placements_finite, check_regular
-from .preparing import _as_list, prepare
-from .progress import stages
-from .threads import thread_limited
+from drift.config import Config
+from drift.intake.preflight import check_distinct, check_placements_finite, check_regular
+from drift.intake.prepare import _as_list, prepare
+from drift.progress import stages
+from drift.settings_rules import count_from
+from drift.threads import thread_limited
 
-__all__ = ["place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAMES", "INSEASON_FILES"]
+if TYPE_CHECKING:  # pragma: no cover - annotations only; pandas loads on first use
+    import pandas as pd
+
+__all__ = ["place", "place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAMES", "INSEASON_FILES"]
 
 
 @dataclass(frozen=True)
@@ -20,10 +25,17 @@ class Placed:
     """What :func:`place_files` wrote: ``placements`` to ``path``; ``excluded`` (the rows the
     filters left out, with ``reason`` and ``reason_code``; header only when none) to ``excluded_path``."""
 
-    placements: object
-    excluded: object
+    placements: pd.DataFrame
+    excluded: pd.DataFrame
     path: Path
     excluded_path: Path
+
+    def summary(self) -> str:
+        """One line: what was placed and written (the CLI prints it)."""
+        note = ""
+        if len(self.excluded):
+            note = f"; {len(self.excluded)} excluded by the filters, listed in {self.excluded_path}"
+        return f"placed {len(self.placements)} player-seasons; wrote {self.path}{note}"
 
 
 @dataclass(frozen=True)
@@ -31,8 +43,16 @@ class Checked:
     """What :func:`check_files` found: ``checks`` (one row per checked player) and ``excluded``
     (partial rows not checked, with ``reason`` and ``reason_code``)."""
 
-    checks: object
-    excluded: object
+    checks: pd.DataFrame
+    excluded: pd.DataFrame
+    out: Path | None = None
+
+    def summary(self) -> str:
+        """One line: players checked and how many moved beyond noise (the CLI prints it)."""
+        counts = self.checks["status"].value_counts()
+        shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
+        page = f"; page: {self.out}/inseason.html" if self.out is not None else ""
+        return f"checked {len(self.checks)} players against their last season ({shown or 'none beyond noise'}){page}"
 
 
 def _model_config(model, config):
@@ -69,9 +89,9 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     -------
     Placed
     """
-    from .model import RoleModel
-    from .outputs import atomic_file, check_output_file
-    from .safecsv import write_csv
+    from drift.model import RoleModel
+    from drift.output.folders import atomic_file, check_output_file
+    from drift.output.tables import write_csv
 
     st = stages(progress)
     out = Path(out)
@@ -136,19 +156,21 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     """
     import pandas as pd
 
-    from .constants import FILTER_REASONS
-    from .inseason import check_partial
-    from .inseason_page import write_page
-    from .model import RoleModel
-    from .outputs import atomic_folder, check_output_folder
-    from .safecsv import write_csv
+    from drift.constants import FILTER_REASONS
+    from drift.measure.inseason import check_partial
+    from drift.model import RoleModel
+    from drift.output.folders import atomic_folder, check_output_folder
+    from drift.output.tables import write_csv
+    from drift.report.inseason_page import write_page
 
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_regular(guarded)
     check_distinct([*_as_list(partial), *_as_list(against)])
     check_output_folder(out, kind="inseason", inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
-    base = _model_config(model, config)
+    # alpha and season_games go through the settings' own validators, like every other setting
+    base = _model_config(model, config).replace(alpha=alpha)
+    season_games = count_from(1)("season_games", season_games)
     part_config = base.replace(
         min_games=min_games if min_games is not None else INSEASON_MIN_GAMES,
         min_minutes_per_game=min_minutes_per_game)
@@ -156,7 +178,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     full = prepare(against, base)
     for prepared in (part, full):
         model.check_features(prepared.features)
-    alpha = alpha if alpha is not None else base.alpha
+    alpha = base.alpha
     checks, unmatched = check_partial(model, part.kept, full.kept, alpha=alpha, season_games=season_games)
     unmatched = unmatched.assign(reason=FILTER_REASONS["no_earlier_season"], reason_code="no_earlier_season")
     columns = [c for c in part.excluded.columns if c in unmatched.columns]
@@ -166,4 +188,8 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
         write_csv(excluded, tmp / "inseason_excluded.csv")
         write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,
                    n_excluded=len(excluded))
-    return Checked(checks, excluded)
+    return Checked(checks, excluded, Path(out))
+
+
+#: the public name (``drift.place``): place season files with a saved model
+place = place_files

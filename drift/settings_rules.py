@@ -7,11 +7,12 @@ are refused, never clamped; NaN and infinities are refused.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from numbers import Integral, Real
 
-from .constants import COMPONENT_RULES, KMEANS_RESTARTS, NOISE_POLICIES, STANDARD_COLUMNS
-from .errors import ConfigError
+from drift.constants import COMPONENT_RULES, KMEANS_RESTARTS, NOISE_POLICIES, STANDARD_COLUMNS
+from drift.errors import ConfigError
 
 __all__ = ["non_negative", "count_from", "seed", "MAX_SEED", "fraction_open", "fraction_closed", "components", "roles",
            "noise_policy", "optional_text", "names", "optional_names", "compare", "text_map",
@@ -138,4 +139,30 @@ def columns(name, value):
     if unknown:
         raise ConfigError(f"[columns] has unknown drift names {sorted(unknown)}; "
                           f"allowed: {', '.join(STANDARD_COLUMNS)}")
+    return value
+
+
+class SettingsPart:
+    """Validation and plain-dict conversion shared by the parts."""
+
+    _rules: dict = {}
+
+    def __post_init__(self):
+        for f in dataclasses.fields(self):
+            object.__setattr__(self, f.name, self._rules[f.name](f.name, getattr(self, f.name)))
+
+    def to_dict(self) -> dict:
+        return {f.name: _plain(getattr(self, f.name)) for f in dataclasses.fields(self)}
+
+    @classmethod
+    def from_dict(cls, body: dict):
+        return cls(**body)
+
+
+
+def _plain(value):
+    if isinstance(value, dict):
+        return dict(value)
+    if isinstance(value, tuple):
+        return list(value)
     return value

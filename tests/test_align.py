@@ -8,7 +8,7 @@ import types
 import numpy as np
 import pytest
 
-from drift.align import align_models, relabel
+from drift.model.align import align_models, relabel
 
 
 def _fake_model(centroids, ids=None):

@@ -5,12 +5,11 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 import pytest
-
-from drift.cells import EMPTY_MARKERS, numeric_column
-from drift.errors import InputError
-from drift.intake import read_seasons
-
 from conftest import small_table
+
+from drift.errors import InputError
+from drift.intake._cells import EMPTY_MARKERS, numeric_column
+from drift.intake.read import read_seasons
 
 WHERE = {"file": "f.csv", "column": "x"}
 

@@ -6,13 +6,13 @@ import matplotlib
 import pytest
 
 import drift
-from drift import charts
+from drift.report import charts
 
 
 @pytest.fixture(scope="module")
 def small_league(tmp_path_factory):
     """Three seasons of a small invented league (seeded), written as CSVs."""
-    from drift.demo import generate_league, write_league
+    from drift.sim.demo import generate_league, write_league
 
     folder = tmp_path_factory.mktemp("small")
     write_league(folder, generate_league(11, seasons=("2021-22", "2022-23", "2023-24"), n_teams=6, roster=14))

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from drift.choice import choice_proba, fit_choice
+from drift.outlook._logit import choice_proba, fit_choice
 
 
 def test_matches_scikit_learn_multinomial_on_wine():

@@ -8,10 +8,9 @@ import sys
 
 import pandas as pd
 import pytest
+from conftest import DEMO, small_table
 
 from drift.cli import main
-
-from conftest import DEMO, small_table
 
 OUTPUTS = {"report.html", "model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
            "role_drift.csv", "comparables.csv", "features.csv"}

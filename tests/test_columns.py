@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from drift.columns import normalise, understand_columns
 from drift.config import Config
 from drift.errors import ConfigError
+from drift.intake.columns import normalise, understand_columns
 
 
 def _read(names, config=None):

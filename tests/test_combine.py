@@ -6,8 +6,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from drift.combine import combine_stints
-from drift.features import feature_spec
+from drift.intake._stints import combine_stints
+from drift.intake.features import feature_spec
 
 
 def _traded():

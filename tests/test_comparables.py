@@ -6,7 +6,7 @@ import numpy as np
 import pandas as pd
 from scipy.spatial.distance import cdist
 
-from drift.comparables import comparables, needed_rows, run_comparables
+from drift.measure.comparables import comparables, needed_rows, run_comparables
 
 
 class _Model:

@@ -18,6 +18,6 @@ def test_every_reason_code_has_wording_and_joined_codes_read_as_one_phrase():
 
 def test_every_feature_family_has_a_missing_value_rule():
     from drift.constants import MISSING_ACTIONS
-    from drift.features import FAMILIES
+    from drift.intake.features import FAMILIES
 
     assert set(MISSING_ACTIONS) == set(FAMILIES)

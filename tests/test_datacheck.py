@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from drift.cli import main
-
 from conftest import DEMO, small_table
+
+from drift.cli import main
 
 
 def _config(tmp_path, text):

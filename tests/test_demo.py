@@ -3,10 +3,9 @@
 from __future__ import annotations
 
 import numpy as np
-
-from drift.demo import ARCHETYPES, PLAY_TYPES, generate_league, write_league
-
 from conftest import DEMO
+
+from drift.sim.demo import ARCHETYPES, PLAY_TYPES, generate_league, write_league
 
 
 def test_committed_files_are_what_the_generator_writes(tmp_path):

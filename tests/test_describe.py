@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from drift.describe import NAME_MIN_SCORE, ROLE_VOCABULARY, describe_role, name_roles
+from drift.model.describe import NAME_MIN_SCORE, ROLE_VOCABULARY, describe_role, name_roles
 
 #: the demo league's true archetypes (drift/demo.py) and what a coach would call them
 DEMO_NAMES = {"lead_creator": "primary ball handler", "combo_guard": "combo guard", "spot_up_wing": "spot-up wing",

@@ -5,10 +5,9 @@ from __future__ import annotations
 import re
 
 import pandas as pd
+from conftest import DEMO, ROOT
 
 from drift.cli import build_parser
-
-from conftest import DEMO, ROOT
 
 README = (ROOT / "README.md").read_text(encoding="utf-8")
 

@@ -7,7 +7,7 @@ import pandas as pd
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from drift.fastcsv import write_frame
+from drift.output._fastcsv import write_frame
 
 TEXT = st.one_of(st.none(), st.text(alphabet=st.sampled_from(list('ab ,"\n\'=-x1.')), max_size=6))
 FLOAT = st.one_of(st.floats(allow_nan=True, allow_infinity=True),
@@ -32,7 +32,7 @@ def test_random_tables_are_written_byte_for_byte_as_pandas(tmp_path_factory, row
 
 
 def test_blocks_and_odd_columns_match_pandas(tmp_path, monkeypatch):
-    import drift.fastcsv as fastcsv
+    import drift.output._fastcsv as fastcsv
 
     monkeypatch.setattr(fastcsv, "BLOCK_ROWS", 7)
     rng = np.random.default_rng(0)

@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from drift.features import apply_filters, exposure_matrix, feature_spec, fill_unused_shares
+from drift.intake.features import apply_filters, exposure_matrix, feature_spec, fill_unused_shares
 
 
 def test_families_and_pairs():

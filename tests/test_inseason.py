@@ -7,7 +7,7 @@ import pandas as pd
 import pytest
 from scipy.stats import chi2
 
-from drift.inseason import INSEASON_STATUSES, _scaled_statistic, baseline_pairs, check_partial, null_scale
+from drift.measure.inseason import INSEASON_STATUSES, _scaled_statistic, baseline_pairs, check_partial, null_scale
 
 
 @pytest.fixture(scope="module")
@@ -15,7 +15,7 @@ def partial_league(tmp_path_factory):
     """The demo league's next season after 20 games (same players), its truth, and its prepared rows."""
     from drift.api import prepare
     from drift.config import Config
-    from drift.demo import generate_league, write_league
+    from drift.sim.demo import generate_league, write_league
 
     folder = tmp_path_factory.mktemp("partial")
     league = generate_league(2024, partial_games=20)

@@ -5,12 +5,11 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 import pytest
+from conftest import small_table
 
 from drift.config import Config
 from drift.errors import InputError
-from drift.intake import read_seasons
-
-from conftest import small_table
+from drift.intake.read import read_seasons
 
 
 def test_folder_of_csv_season_from_file_name(tmp_path):
@@ -187,10 +186,10 @@ def test_fuzzed_cells_either_read_or_fail_cleanly(tmp_path, row, column, value):
 
 def test_demo_written_as_a_real_export_reads_like_the_demo(tmp_path, demo_prepared, demo_model,
                                                            demo_analysis):
-    from drift.api import prepare
-
     from conftest import DEMO
     from exports import COLUMN_MAP, write_export
+
+    from drift.api import prepare
 
     write_export(DEMO, tmp_path)
     prepared = prepare(tmp_path, Config(columns=COLUMN_MAP))

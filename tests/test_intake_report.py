@@ -6,7 +6,7 @@ import pandas as pd
 import pytest
 
 from drift.errors import DataQualityWarning
-from drift.intake_report import emit_notes
+from drift.intake._column_table import emit_notes
 
 
 def test_features_csv_says_family_play_type_unit_and_rule(demo_prepared, demo_model):

@@ -14,10 +14,9 @@ from pathlib import Path
 from typing import Callable
 
 import pytest
+from conftest import ROOT, small_table
 
 from drift.cli import main
-
-from conftest import ROOT, small_table
 
 SEASONS = ("2021-22", "2022-23", "2023-24")
 

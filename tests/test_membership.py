@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 from scipy import stats
 
-from drift.model.membership import membership_probabilities, true_within_cov
+from drift.model._membership import membership_probabilities, true_within_cov
 
 
 def test_posterior_matches_scipy_gaussians():

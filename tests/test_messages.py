@@ -9,11 +9,10 @@ import textwrap
 import warnings
 
 import pytest
+from conftest import ROOT
 
 from drift.errors import DataQualityWarning, InputError
 from drift.messages import printable, run_guarded
-
-from conftest import ROOT
 
 
 def test_third_party_warnings_are_counted_once_each_and_never_loop(capsys):

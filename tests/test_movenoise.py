@@ -7,8 +7,8 @@ import pandas as pd
 import pytest
 from scipy import stats
 
+from drift.model._shrinkage import NoiseState
 from drift.model.movenoise import MoveCalibration, MoveNull, fit_calibration
-from drift.model.shrinkage import NoiseState
 
 
 def _states(m, p, rng):

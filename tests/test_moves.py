@@ -6,8 +6,8 @@ import numpy as np
 import pytest
 from sklearn.metrics import roc_auc_score
 
-from drift.moves import pair_moves, requested_pairs
-from drift.noise import consecutive_pairs
+from drift.measure.moves import pair_moves, requested_pairs
+from drift.model.noise import consecutive_pairs
 
 
 def _with_truth(moves, truth):
@@ -22,11 +22,11 @@ def _with_truth(moves, truth):
 @pytest.fixture(scope="module")
 def simulated():
     """A second league from another seed: the model never saw it while we tuned anything."""
-    from drift.api import analyse, fit_model, prepare
-    from drift.demo import generate_league, write_league
-
     import tempfile
     from pathlib import Path
+
+    from drift.api import analyse, fit_model, prepare
+    from drift.sim.demo import generate_league, write_league
 
     league = generate_league(seed=11)
     with tempfile.TemporaryDirectory() as tmp:
@@ -89,7 +89,7 @@ def test_drivers_are_signed_features_in_units_and_sd(demo_model, demo_prepared):
     kept["season"] = ["2020", "2021"]
     kept.iloc[1, kept.columns.get_loc("three_pa_rate")] = kept["three_pa_rate"].iloc[0] + 0.3
     placed = demo_model.place(kept)
-    moves = pair_moves(demo_model, kept, placed, np.array([0]), np.array([1]))
+    moves = pair_moves(demo_model, kept, placed, np.array([0]), np.array([1]), alpha=0.01)
     drivers = [moves[f"driver_{i}"].iloc[0] for i in (1, 2, 3)]
     assert "three_pa_rate" in drivers
     i = drivers.index("three_pa_rate") + 1
@@ -148,9 +148,9 @@ def test_null_in_blocks_matches_one_block(demo_model, demo_prepared, monkeypatch
     kept = demo_prepared.kept
     i, j = consecutive_pairs(kept)
     placed = demo_model.place(kept)
-    whole = pair_moves(demo_model, kept, placed, i, j)
+    whole = pair_moves(demo_model, kept, placed, i, j, alpha=0.01)
     monkeypatch.setattr(movenoise, "BLOCK", 37)
-    blocked = pair_moves(demo_model, kept, placed, i, j)
+    blocked = pair_moves(demo_model, kept, placed, i, j, alpha=0.01)
     assert len(i) > 37 * 3
     np.testing.assert_array_equal(whole["p_value"], blocked["p_value"])
     np.testing.assert_array_equal(whole["noise_distance"], blocked["noise_distance"])
@@ -160,6 +160,6 @@ def test_a_zero_move_has_a_finite_z(demo_model, demo_prepared):
     kept = demo_prepared.kept.iloc[[0, 0]].copy()
     kept["player_id"] = "X"
     kept["season"] = ["2020", "2021"]
-    moves = pair_moves(demo_model, kept, demo_model.place(kept), np.array([0]), np.array([1]))
+    moves = pair_moves(demo_model, kept, demo_model.place(kept), np.array([0]), np.array([1]), alpha=0.01)
     assert moves["distance"].iloc[0] == 0 and moves["p_value"].iloc[0] == pytest.approx(1.0)
     assert np.isfinite(moves["z"]).all() and moves["z"].iloc[0] < -8

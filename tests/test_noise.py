@@ -6,8 +6,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from drift.features import exposure_matrix, feature_spec
-from drift.noise import consecutive_pairs, fit_noise, james_stein_factor, shrinkage_factors
+from drift.intake.features import exposure_matrix, feature_spec
+from drift.model.noise import consecutive_pairs, fit_noise, james_stein_factor, shrinkage_factors
 
 # source: Efron & Morris (1975), JASA 70:311-319, table 1 (18 players after 45 at-bats)
 EM_FIRST_45 = [.400, .378, .356, .333, .311, .311, .289, .267, .244, .244, .222, .222, .222, .222,

@@ -8,8 +8,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from drift.backtest import backtest, calibration_table, naive_proba, scores
-from drift.outlook import OUTLOOK_COLUMNS, RoleOutlook, history_table
+from drift.outlook.backtest import backtest, calibration_table, naive_proba, scores
+from drift.outlook.forecast import OUTLOOK_COLUMNS, RoleOutlook, history_table
 
 
 def markov_league(stay=0.9, n_players=300, n_seasons=5, seed=0):

@@ -10,11 +10,10 @@ import sys
 import textwrap
 
 import pytest
+from conftest import ROOT
 
 from drift.errors import InputError
-from drift.outputs import MARKER, atomic_file, atomic_folder, check_output_file, check_output_folder
-
-from conftest import ROOT
+from drift.output.folders import MARKER, atomic_file, atomic_folder, check_output_file, check_output_folder
 
 
 def _write(out, files, kind="run", **kw):
@@ -139,7 +138,7 @@ def test_unwritable_output_is_refused_before_any_work(tmp_path):
 _CHILD = textwrap.dedent("""
     import sys, time
     sys.path.insert(0, {root!r})
-    from drift.outputs import atomic_folder
+    from drift.output.folders import atomic_folder
     with atomic_folder(sys.argv[1], kind="run") as tmp:
         for name in ("a.csv", "b.csv", "report.html"):
             (tmp / name).write_text(sys.argv[2])
@@ -199,7 +198,7 @@ _SLOW = textwrap.dedent("""
     import sys, time
     sys.path.insert(0, {root!r})
     from drift.messages import run_guarded
-    from drift.outputs import atomic_folder
+    from drift.output.folders import atomic_folder
     def job(args):
         with atomic_folder(sys.argv[1], kind="run") as tmp:
             (tmp / "a.csv").write_text("new")
@@ -225,9 +224,9 @@ def test_interrupt_prints_one_line_and_leaves_no_litter(tmp_path, sig, code):
 
 
 def test_cli_run_never_replaces_its_own_data_folder(tmp_path, capsys):
-    from drift.cli import main
-
     from conftest import small_table
+
+    from drift.cli import main
 
     data = tmp_path / "seasons"
     data.mkdir()

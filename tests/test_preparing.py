@@ -6,7 +6,7 @@ import pytest
 
 from drift.constants import MISSING_ACTIONS
 from drift.errors import InputError
-from drift.preparing import reference_pool
+from drift.intake.prepare import reference_pool
 
 
 def test_excluded_rows_carry_a_code_that_matches_their_numbers(demo_prepared):

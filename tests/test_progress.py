@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import io
 
+from conftest import DEMO
+
 from drift.cli import _progress, build_parser
 from drift.progress import StageEvent, Stages, TerminalProgress
-
-from conftest import DEMO
 
 
 class _Clock:

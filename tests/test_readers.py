@@ -4,12 +4,11 @@ from __future__ import annotations
 
 import pandas as pd
 import pytest
+from conftest import small_table
 
 from drift.errors import InputError
-from drift.intake import read_seasons
-from drift.readers import season_label
-
-from conftest import small_table
+from drift.intake._readers import season_label
+from drift.intake.read import read_seasons
 
 
 @pytest.mark.parametrize("name, season", [

@@ -151,7 +151,7 @@ def test_membership_never_reads_a_flat_hundred(context, page):
 
 def test_missing_counts_agree_between_sections(context, demo_analysis):
     by_table = {m["feature"]: m["missing"] for m in context.missing}
-    from drift.describe import feature_label
+    from drift.model.describe import feature_label
 
     labels = {feature_label(f): f for f in demo_analysis.model.features_}
     for row in context.reliability:

@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from drift.roledrift import drift_headlines, role_drift
+from drift.measure.role_drift import drift_headlines, role_drift
 
 
 def _spot_up_role(model):
@@ -16,10 +16,10 @@ def test_planted_shift_in_one_role_is_recovered(demo_model, demo_prepared):
     kept = demo_prepared.kept.copy()
     roles = demo_model.predict(kept)
     spot = _spot_up_role(demo_model)
-    before = role_drift(demo_model, kept)
+    before = role_drift(demo_model, kept, seed=0)
     last = (kept["season"] == "2024-25").to_numpy() & (roles == spot)
     kept.loc[last, "three_pa_rate"] += 0.08  # spot-up wings shoot more threes in the last season
-    after = role_drift(demo_model, kept)
+    after = role_drift(demo_model, kept, seed=0)
 
     def value(drift, role):
         return drift[(drift["role"] == role) & (drift["feature"] == "three_pa_rate")].set_index("season")["value"]
@@ -32,9 +32,9 @@ def test_planted_shift_in_one_role_is_recovered(demo_model, demo_prepared):
 
 def test_demo_league_trend_is_recovered(demo_model, demo_prepared):
     """Known truth: three-point rate rises 0.008 a season league-wide, 0.020 for spot-up wings."""
-    from drift.demo import SPOT_UP_EXTRA_TREND, THREE_RATE_TREND
+    from drift.sim.demo import SPOT_UP_EXTRA_TREND, THREE_RATE_TREND
 
-    drift = role_drift(demo_model, demo_prepared.kept)
+    drift = role_drift(demo_model, demo_prepared.kept, seed=0)
     three = drift[(drift["feature"] == "three_pa_rate") & (drift["season"] == "2024-25")].set_index("role")
     spot = _spot_up_role(demo_model)
     expected = 5 * (THREE_RATE_TREND + SPOT_UP_EXTRA_TREND)
@@ -46,7 +46,7 @@ def test_demo_league_trend_is_recovered(demo_model, demo_prepared):
 
 
 def test_every_season_and_role_is_reported(demo_model, demo_prepared):
-    drift = role_drift(demo_model, demo_prepared.kept)
+    drift = role_drift(demo_model, demo_prepared.kept, seed=0)
     assert set(drift["season"]) == set(demo_prepared.kept["season"])
     per = drift.groupby("season")["role"].nunique()
     assert (per == len(demo_model.role_ids_)).all()
@@ -58,7 +58,7 @@ def test_no_drift_is_called_when_seasons_are_shuffled(demo_model, demo_prepared)
     rng = np.random.default_rng(5)
     kept = demo_prepared.kept.copy()
     kept["season"] = rng.permutation(kept["season"].to_numpy())
-    drift = role_drift(demo_model, kept)
+    drift = role_drift(demo_model, kept, seed=0)
     share = drift["beyond_noise"].mean()
     print(f"share of role-season-feature centres called beyond noise with shuffled seasons: {share:.4f}")
     assert share < 0.01

@@ -4,14 +4,22 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from sklearn.cluster import KMeans
 from sklearn.datasets import load_breast_cancer, load_iris, load_wine, make_blobs
 from sklearn.decomposition import PCA
 from sklearn.preprocessing import StandardScaler
 
-from sklearn.cluster import KMeans
-
-from drift.selection import (choose_components, choose_roles, elbow_count, eigenvalues, gap_consensus,
-                             gap_pick, gap_statistic, parallel_analysis, variance_count)
+from drift.model.count_rules import (
+    choose_components,
+    choose_roles,
+    eigenvalues,
+    elbow_count,
+    gap_consensus,
+    gap_pick,
+    gap_statistic,
+    parallel_analysis,
+    variance_count,
+)
 
 
 def _std(loader):
@@ -24,7 +32,7 @@ def test_correlation_eigenvalues_iris():
 
 
 def test_explained_variance_ratios_standardised_iris():
-    n, diag = choose_components(_std(load_iris), 2)
+    n, diag = choose_components(_std(load_iris), 2, variance_threshold=0.9, seed=0)
     # source: R prcomp(iris[,1:4], scale.=TRUE) gives 0.7296, 0.2285, 0.0367, 0.0052 (from memory);
     # scikit-learn 1.9.1 on bundled iris gives 0.729624, 0.228508, 0.036689, 0.005179
     np.testing.assert_allclose(diag["explained_ratio"], [0.729624, 0.228508, 0.036689, 0.005179], atol=1e-5)
@@ -36,9 +44,9 @@ def test_raw_iris_differs_so_standardising_matters():
     # source: scikit-learn documentation, "Comparison of LDA and PCA 2D projection of Iris dataset"
     ratios = PCA(2).fit(raw).explained_variance_ratio_
     np.testing.assert_allclose(ratios, [0.92461872, 0.05306648], atol=1e-6)
-    _, diag = choose_components(raw, 2)
+    _, diag = choose_components(raw, 2, variance_threshold=0.9, seed=0)
     np.testing.assert_allclose(diag["explained_ratio"].iloc[:2], ratios, atol=1e-6)
-    _, std_diag = choose_components(_std(load_iris), 2)
+    _, std_diag = choose_components(_std(load_iris), 2, variance_threshold=0.9, seed=0)
     assert std_diag["explained_ratio"].iloc[0] < 0.75
 
 
@@ -49,7 +57,7 @@ def test_raw_iris_differs_so_standardising_matters():
 ])
 def test_variance_thresholds_wine_and_breast_cancer(loader, at80, at90, at95, first):
     z = _std(loader)
-    _, diag = choose_components(z, 1)
+    _, diag = choose_components(z, 1, variance_threshold=0.9, seed=0)
     np.testing.assert_allclose(diag["explained_ratio"].iloc[:len(first)], first, atol=1e-5)
     ratios = diag["explained_ratio"].to_numpy()
     assert [variance_count(ratios, t) for t in (0.80, 0.90, 0.95)] == [at80, at90, at95]
@@ -95,7 +103,7 @@ def test_gap_statistic_picks_four_blobs():
 
 def test_wine_roles_three_by_silhouette_and_calinski_harabasz():
     z = _std(load_wine)
-    choice = choose_roles(z, "auto", max_roles=8, n_boot=10, method="vote")
+    choice = choose_roles(z, "auto", max_roles=8, n_boot=10, method="vote", seed=0, n_init=10)
     k, diag = choice.k, choice.diagnostics
     row = diag.set_index("k").loc[3]
     # source: shared/check-values.md, k-means k=3 on standardised wine (n_init=10, random_state=0)
@@ -131,17 +139,17 @@ def test_global_gap_rule_is_not_stopped_by_a_plateau():
 def test_default_rule_is_the_gap_and_stability_never_vetoes():
     x, _ = make_blobs(300, centers=[[0, 0], [8, 0], [0, 8], [8, 8], [4, 14]], cluster_std=1.0,
                       random_state=1)
-    choice = choose_roles(x, "auto", max_roles=8, n_boot=5)
+    choice = choose_roles(x, "auto", max_roles=8, n_boot=5, seed=0, n_init=10)
     diag = choice.diagnostics.set_index("k")
     assert choice.k == choice.picks["gap"] == 5
     assert {"stable", "gap_votes", "pick_vote", "chosen"} <= set(diag.columns)
     assert diag.loc[5, "gap_votes"] >= 2
     # a k with an unstable role can still be chosen: stability is reported, not used
-    low = choose_roles(np.random.default_rng(0).normal(size=(200, 2)), "auto", max_roles=6, n_boot=5)
+    low = choose_roles(np.random.default_rng(0).normal(size=(200, 2)), "auto", max_roles=6, n_boot=5, seed=0, n_init=10)
     assert low.k in range(2, 7) and "stable" in low.diagnostics
 
 
 def test_fixed_roles_skip_the_search():
     z = _std(load_iris)
-    choice = choose_roles(z, 4, n_boot=3)
+    choice = choose_roles(z, 4, n_boot=3, max_roles=14, seed=0, n_init=10)
     assert choice.k == 4 and list(choice.diagnostics["k"]) == [4]

@@ -7,7 +7,7 @@ import warnings
 import numpy as np
 import pytest
 
-from drift.simulate import LeagueSpec, simulate_league
+from drift.sim.family import LeagueSpec, simulate_league
 
 
 @pytest.fixture(scope="module")
@@ -28,7 +28,7 @@ def small_run(tmp_path_factory):
 
 
 def test_simulated_league_keeps_players_seasons_and_samples(small_run):
-    from drift.selfcheck import simulate_like
+    from drift.sim.selfcheck import simulate_like
 
     prepared, model, _ = small_run
     kept = prepared.kept.reset_index(drop=True)
@@ -46,7 +46,7 @@ def test_simulated_league_keeps_players_seasons_and_samples(small_run):
 
 
 def test_self_check_recovers_a_clear_league(small_run):
-    from drift.selfcheck import self_check
+    from drift.sim.selfcheck import self_check
 
     prepared, model, config = small_run
     check = self_check(prepared, model, config, n_sims=2, seed=1)

@@ -6,8 +6,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from drift.model.shrinkage import process
-from drift.noise import james_stein_factor
+from drift.model._shrinkage import process
+from drift.model.noise import james_stein_factor
 
 
 def test_equal_samples_give_the_james_stein_factor():

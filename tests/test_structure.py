@@ -78,3 +78,56 @@ def test_no_import_cycles():
         if node not in state:
             visit(node, [node])
     assert not cycles, cycles
+
+
+#: the stages in the order data flows; a stage may import only itself and earlier stages
+FLOW = ("intake", "model", ("measure", "outlook"), ("report", "output"), "sim")
+#: top-level modules any stage may use (the wiring -- api, cli, config, placing -- is not among them)
+SHARED = {"drift", "drift.errors", "drift.constants", "drift.settings_rules", "drift.progress", "drift.threads",
+          "drift.messages"}
+
+
+def _stage(module: str):
+    parts = module.split(".")
+    return parts[1] if len(parts) > 1 and (DRIFT / parts[1]).is_dir() else None
+
+
+def _rank(stage):
+    return next(i for i, s in enumerate(FLOW) if stage == s or (isinstance(s, tuple) and stage in s))
+
+
+def test_data_flows_one_way_between_stage_subpackages():
+    names = {_name(p): p for p in MODULES}
+    against = []
+    for name, path in names.items():
+        own = _stage(name)
+        if own is None:
+            continue
+        for target in _imports(path):
+            if target not in names:
+                continue
+            other = _stage(target)
+            if other is None:
+                if target not in SHARED and not (own == "sim" and target == "drift.config"):
+                    against.append(f"{name} -> {target} (wiring)")
+            elif other != own and _rank(other) > _rank(own):
+                against.append(f"{name} -> {target}")
+            elif other != own and _rank(other) == _rank(own):
+                against.append(f"{name} -> {target} (sibling stage)")
+    assert not against, against
+
+
+def test_top_level_holds_only_the_wiring():
+    top = sorted(p.stem for p in DRIFT.glob("*.py") if p.stem not in ("__init__", "__main__"))
+    assert len(top) <= 12, top
+
+
+def test_every_stage_says_what_comes_in_and_goes_out_and_exports_its_names():
+    import importlib
+
+    for folder in sorted(p for p in DRIFT.iterdir() if (p / "__init__.py").exists()):
+        module = importlib.import_module(f"drift.{folder.name}")
+        doc = module.__doc__ or ""
+        assert "In\n" in doc and "Out\n" in doc, folder.name
+        for name in module.__all__:
+            assert getattr(module, name) is not None, f"drift.{folder.name}.{name}"

@@ -4,12 +4,11 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from conftest import small_table
 
 from drift.config import Config
 from drift.errors import DataQualityWarning, InputError
-from drift.intake import read_seasons
-
-from conftest import small_table
+from drift.intake.read import read_seasons
 
 
 def _write(tmp_path, t, season="2024-25"):

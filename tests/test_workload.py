@@ -7,8 +7,8 @@ import pytest
 from sklearn.datasets import load_iris, make_blobs
 from sklearn.metrics import adjusted_rand_score
 
-from drift.selection import choose_components, choose_roles
-from drift.workload import fit_kmeans, select_components, select_roles, subsample
+from drift.model.count_rules import choose_components, choose_roles
+from drift.model.counting import fit_kmeans, select_components, select_roles, subsample
 
 
 def _iris_z():
@@ -20,8 +20,8 @@ def _iris_z():
 @pytest.mark.parametrize("rule", [2, 3, 0.9, 0.7])
 def test_fixed_components_agree_with_the_full_rule_without_parallel_analysis(rule):
     z = _iris_z()
-    n, diag = select_components(z, rule)
-    n_full, full = choose_components(z, rule)
+    n, diag = select_components(z, rule, variance_threshold=0.9, seed=0)
+    n_full, full = choose_components(z, rule, variance_threshold=0.9, seed=0)
     assert n == n_full
     # eigenvalues from the covariance agree with numpy's SVD (reference library)
     np.testing.assert_allclose(diag["eigenvalue"], full["eigenvalue"], rtol=1e-10, atol=1e-12)
@@ -37,15 +37,15 @@ def test_automatic_components_on_a_large_pool_use_a_bounded_sample():
     latent = rng.standard_normal((6000, 3))
     z = latent @ rng.standard_normal((3, 12)) + 0.3 * rng.standard_normal((6000, 12))
     z = (z - z.mean(axis=0)) / z.std(axis=0)
-    n_sample, _ = select_components(z, "parallel", max_rows=1500)
-    n_full, _ = choose_components(z, "parallel")
+    n_sample, _ = select_components(z, "parallel", max_rows=1500, variance_threshold=0.9, seed=0)
+    n_full, _ = choose_components(z, "parallel", variance_threshold=0.9, seed=0)
     assert n_sample == n_full == 3
 
 
 def test_fixed_roles_give_the_same_fit_as_the_rule_and_skip_the_gap():
     x, _ = make_blobs(n_samples=600, centers=4, n_features=3, random_state=1)
-    fast = select_roles(x, 4, seed=0, n_init=3, n_boot=5)
-    full = choose_roles(x, 4, seed=0, n_init=3, n_boot=5)
+    fast = select_roles(x, 4, seed=0, n_init=3, n_boot=5, max_roles=14)
+    full = choose_roles(x, 4, seed=0, n_init=3, n_boot=5, max_roles=14)
     np.testing.assert_array_equal(fast.kmeans.labels_, full.kmeans.labels_)
     np.testing.assert_allclose(fast.stability, full.stability)
     assert fast.diagnostics["gap"].isna().all()

@@ -10,14 +10,28 @@ Pipeline (all constants learned on the pool only):
 
 from __future__ import annotations
 
-from ..constants import KMEANS_RESTARTS
-from ..errors import ModelFileError, NotFittedError
-from .fileformat import FileMethods
-from .fitting import FittingSteps
+from drift.errors import ModelFileError, NotFittedError
+from drift.model._fitting import FittingSteps
+from drift.model.fileformat import FileMethods
+from drift.model.settings import ModelSettings
 
 __all__ = ["RoleModel"]
 
 _FITTED = "centroids_"
+def fitted(method):
+    """Decorator: the one fitted-check of every public method that uses learned state."""
+    import functools
+
+    @functools.wraps(method)
+    def checked(self, *args, **kwargs):
+        self._check_fitted()
+        return method(self, *args, **kwargs)
+
+    return checked
+
+
+#: the one home of every default: the settings part (the constructor reads its defaults from it)
+_DEFAULTS = ModelSettings()
 _SETTINGS = ("components", "variance_threshold", "roles", "max_roles", "noise_policy", "seed",
              "n_init", "n_bootstrap", "role_names")
 
@@ -89,9 +103,9 @@ class RoleModel(FittingSteps, FileMethods):
     fingerprint_ : str
     """
 
-    def __init__(self, *, components="variance", variance_threshold=0.9, roles="auto",
-                 max_roles=14, noise_policy="shrink", seed=0, n_init=KMEANS_RESTARTS, n_bootstrap=20,
-                 role_names=None):
+    def __init__(self, *, components=_DEFAULTS.components, variance_threshold=_DEFAULTS.variance_threshold,
+                 roles=_DEFAULTS.roles, max_roles=_DEFAULTS.max_roles, noise_policy=_DEFAULTS.noise_policy,
+                 seed=_DEFAULTS.seed, n_init=_DEFAULTS.n_init, n_bootstrap=_DEFAULTS.n_bootstrap, role_names=None):
         self.components = components
         self.variance_threshold = variance_threshold
         self.roles = roles
@@ -110,8 +124,6 @@ class RoleModel(FittingSteps, FileMethods):
     @property
     def settings(self):
         """The settings as a validated :class:`drift.config.ModelSettings`."""
-        from ..config import ModelSettings
-
         values = {name: getattr(self, name) for name in _SETTINGS}
         values["role_names"] = dict(values["role_names"] or {})
         return ModelSettings(**values)
@@ -140,7 +152,7 @@ class RoleModel(FittingSteps, FileMethods):
         -------
         self
         """
-        from ..config import IntakePolicy
+        from drift.intake.policy import IntakePolicy
 
         settings = self._checked_settings()
         names = tuple(features)
@@ -160,7 +172,7 @@ class RoleModel(FittingSteps, FileMethods):
     def _process(self, values, exposure, table):
         import numpy as np
 
-        from .shrinkage import process
+        from drift.model._shrinkage import process
 
         # the move calibration's sample size: minutes (rates settle with time on the floor)
         base = np.maximum(table["minutes"].to_numpy(float), 1.0)
@@ -173,11 +185,11 @@ class RoleModel(FittingSteps, FileMethods):
                 f"This {type(self).__name__} instance is not fitted yet. Call 'fit' with a pool of "
                 "seasons, or load a saved model with RoleModel.load(path).")
 
+    @fitted
     def processed(self, table):
         """Processed feature values, shape (n, p), and their :class:`NoiseState`."""
-        from ..features import exposure_matrix, feature_spec
+        from drift.intake.features import exposure_matrix, feature_spec
 
-        self._check_fitted()
         missing = [f for f in self.features_ if f not in table.columns]
         if missing:
             raise ModelFileError(
@@ -186,35 +198,40 @@ class RoleModel(FittingSteps, FileMethods):
         exposure = exposure_matrix(table, feature_spec(self.features_))
         return self._process(table[list(self.features_)].to_numpy(float), exposure, table)
 
+    @fitted
     def loadings(self):
         """Component scores per unit of each processed feature, shape (q, p)."""
         return self.components_ * (self.weights_ / self.scaler_scale_)
 
+    @fitted
     def in_pool_sd(self, values):
         """Feature values (n, p) as pool standard deviations from the pool mean."""
-        from ..features import safe_scale
+        from drift.intake.features import safe_scale
 
         noise = self.noise_
         sd = safe_scale(noise["sd"].to_numpy(float))
         return (values - noise["mean"].to_numpy(float)) / sd
 
+    @fitted
     def scores_from_processed(self, processed):
         """Component scores, shape (n, q), of processed feature values of shape (n, p)."""
         z = (processed - self.scaler_mean_) / self.scaler_scale_ * self.weights_
         return (z - self.pca_mean_) @ self.components_.T
 
+    @fitted
     def transform(self, table):
         """Component scores of a season table, shape (n_rows, n_components)."""
         processed, _ = self.processed(table)
         return self.scores_from_processed(processed)
 
+    @fitted
     def distances(self, scores):
         """Euclidean distances to every role, shape (n, k)."""
         from scipy.spatial.distance import cdist
 
-        self._check_fitted()
         return cdist(scores, self.centroids_)
 
+    @fitted
     def memberships(self, scores, state=None):
         """Membership probabilities (n, k) of placements ``scores`` with noise ``state``.
 
@@ -222,38 +239,43 @@ class RoleModel(FittingSteps, FileMethods):
         placement's own sampling noise (see :mod:`.membership`); without a state
         the placements are taken as exact.
         """
-        from .membership import membership_probabilities, placement_cov
+        from drift.model._membership import membership_probabilities, placement_cov
 
         point = None if state is None else placement_cov(self.loadings(), state)
         return membership_probabilities(scores, self.centroids_, self.within_cov_,
                                         self.role_sizes_, point)
 
+    @fitted
     def predict(self, table):
         """Nearest role id of every row, shape (n_rows,)."""
         import numpy as np
 
         return np.asarray(self.role_ids_)[self.distances(self.transform(table)).argmin(axis=1)]
 
+    @fitted
     def predict_proba(self, table):
         """Membership probability of every role, shape (n_rows, k), columns in ``role_ids_`` order."""
         processed, state = self.processed(table)
         return self.memberships(self.scores_from_processed(processed), state)
 
+    @fitted
     def move_null(self, noise_from, noise_to):
         """The calibrated null of moves between two :class:`NoiseState` s (see :mod:`.movenoise`)."""
-        from .movenoise import MoveCalibration, MoveNull
+        from drift.model.movenoise import MoveCalibration, MoveNull
 
         a, b = self.noise_calibration_
         calibration = MoveCalibration(a, b, self.calibration_sample_, *self.calibration_range_,
                                       df=self.null_df_)
         return MoveNull.between(self.loadings(), self.noise_, noise_from, noise_to, calibration)
 
+    @fitted
     def place(self, table):
         """Place season rows: see :func:`drift.place.place`."""
-        from ..place import place
+        from drift.model._placement import place
 
         return place(self, table)
 
+    @fitted
     def check_features(self, features):
         """Refuse data whose feature columns differ from the model's, listing both sides."""
         features = list(features)

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import math
 
-from ..errors import ModelFileError
+from drift.errors import ModelFileError
 
 __all__ = ["SCHEMA", "SCHEMA_VERSION", "FIELDS", "ROLE_FIELDS", "NOISE_COLUMNS", "to_dict",
            "from_dict", "save", "load", "FileMethods"]
@@ -76,7 +76,7 @@ def to_dict(model) -> dict:
     import scipy
     import sklearn
 
-    from .. import __version__
+    from drift import __version__
 
     def arr(a):
         return np.asarray(a, float).tolist()
@@ -157,13 +157,13 @@ def from_dict(cls, data, *, source="model"):
 
 
 def _settings(body, source):
-    from ..config import ModelSettings
+    from drift.model.settings import ModelSettings
 
     return _build(ModelSettings, body, f"{source}: settings")
 
 
 def _intake(body, source):
-    from ..config import IntakePolicy
+    from drift.intake.policy import IntakePolicy
 
     return IntakePolicy.from_model_file(body, where=f"{source}: intake")
 
@@ -171,7 +171,7 @@ def _intake(body, source):
 def _build(kind, body, where):
     import dataclasses
 
-    from ..errors import DriftError
+    from drift.errors import DriftError
 
     known = {f.name for f in dataclasses.fields(kind)}
     unknown = sorted(set(body) - known)

@@ -65,7 +65,7 @@ class Basis:
 
     def role(self, rid) -> dict:
         """A role as the templates show it: id, name, colour and css (its class for the colour)."""
-        from .fmt import slug
+        from drift.report.fmt import slug
 
         return {"id": rid, "name": self.names.get(rid, ""), "colour": self.colours.get(rid, "#888"),
                 "css": slug("c-", rid)}
@@ -101,8 +101,8 @@ def paged_players(analysis, consecutive, latest_pair, limit=None):
 
 def basis(analysis) -> Basis:
     """The shared facts of ``analysis`` (an :class:`~drift.api.Analysis`)."""
-    from .. import charts
-    from .fmt import slug
+    from drift.report import charts
+    from drift.report.fmt import slug
 
     model, moves, placements = analysis.model, analysis.moves, analysis.placements
     kind = moves["kind"] if len(moves) else None

@@ -11,7 +11,7 @@ def build_summary(analysis, b) -> dict:
     The count of role changes covers every comparison (consecutive seasons and the requested
     one), as the command line prints it, with the split beside it.
     """
-    from .. import __version__
+    from drift import __version__
 
     model, placements = analysis.model, analysis.placements
     cons, req = b.consecutive, b.requested
@@ -52,8 +52,8 @@ def build_drift(analysis, b) -> dict:
     """Role-definition drift: the stage's beyond-noise headlines and the chart."""
     from markupsafe import Markup
 
-    from .. import charts
-    from ..roledrift import drift_headlines
+    from drift.measure.role_drift import drift_headlines
+    from drift.report import charts
 
     return {"drift_headlines": list(drift_headlines(analysis.role_drift)["text"]),
             "drift_chart": Markup(charts.drift_chart(analysis.role_drift, analysis.model))}
@@ -63,9 +63,9 @@ def build_features(analysis, b) -> dict:
     """Each feature's reliability; missing values counted once, from the intake's table."""
     from markupsafe import Markup
 
-    from .. import charts
-    from ..describe import feature_label
-    from .fmt import percent, sig
+    from drift.model.describe import feature_label
+    from drift.report import charts
+    from drift.report.fmt import percent, sig
 
     model = analysis.model
     noise = model.noise_
@@ -82,7 +82,7 @@ def build_features(analysis, b) -> dict:
 
 def build_data(analysis, b) -> dict:
     """Exclusions by reason, missing values, seasons outside the reference, files read."""
-    from ..constants import reason_text
+    from drift.constants import reason_text
 
     prepared, placements = analysis.prepared, analysis.placements
     excluded = prepared.excluded

@@ -104,7 +104,7 @@ def filter_words(row, config) -> str:
     ``row`` is a record of the excluded table (games, minutes_per_game, reason_code); the limits
     come from ``config.intake``; codes without a number read as ``drift.constants.reason_text``.
     """
-    from ..constants import reason_text
+    from drift.constants import reason_text
 
     intake = config.intake
     parts = []

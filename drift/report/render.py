@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 from dataclasses import fields
 
 __all__ = ["build_context", "template_environment", "render_report", "write_report"]
@@ -9,7 +10,7 @@ __all__ = ["build_context", "template_environment", "render_report", "write_repo
 
 def _sections():
     """The section builders, in page order."""
-    from . import data, front, moves, outlook, players, roles, teams
+    from drift.report import data, front, moves, outlook, players, roles, teams
 
     return (data.build_summary, front.build_front, players.build_players, players.build_search, teams.build_teams,
             roles.build_roles, moves.build_method_moves, data.build_drift, outlook.build_outlook, roles.build_choice,
@@ -21,7 +22,7 @@ def build_context(analysis):
 
     Every builder returns a dict of context fields; a field set twice is a bug.
     """
-    from .context import CAUTIONS, ReportContext, basis
+    from drift.report.context import CAUTIONS, ReportContext, basis
 
     shared = basis(analysis)
     values = {"cautions": CAUTIONS}
@@ -34,18 +35,12 @@ def build_context(analysis):
     return ReportContext(**values)
 
 
+@functools.cache
 def template_environment():
-    """The one jinja2 Environment: templates from the package data, autoescape on."""
-    from pathlib import Path
-
+    """The one jinja2 Environment, built once: templates from the package data, autoescape on."""
     import jinja2
 
-    package = Path(__file__).resolve().parent.parent
-    # installed: drift/templates (package data); source checkout: the top-level templates/
-    folder = next((f for f in (package / "templates", package.parent / "templates") if f.is_dir()), None)
-    if folder is None:  # pragma: no cover - a broken install
-        raise FileNotFoundError(f"drift's templates are missing (looked in {package / 'templates'}); reinstall drift")
-    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(folder)), autoescape=True,
+    env = jinja2.Environment(loader=jinja2.PackageLoader("drift.report", "templates"), autoescape=True,
                              undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=2: "" if v is None or v != v else f"{v:,.{d}f}"
     env.filters["pct"] = lambda v, d=0: "" if v is None or v != v else f"{100 * v:.{d}f}%"

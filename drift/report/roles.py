@@ -15,7 +15,7 @@ def axis_label(model, i, n=2, short=False) -> str:
     """Name component ``i`` by the features that load on it: "post-up share ← → spot-up share"."""
     import numpy as np
 
-    from ..describe import feature_label
+    from drift.model.describe import feature_label
 
     if model.components_.shape[0] <= i:
         return ""
@@ -33,10 +33,10 @@ def build_roles(analysis, b) -> dict:
     import numpy as np
     from markupsafe import Markup
 
-    from .. import charts
-    from ..describe import feature_label
-    from ..selection import STABLE_JACCARD
-    from .fmt import feature_value
+    from drift.model.count_rules import STABLE_JACCARD
+    from drift.model.describe import feature_label
+    from drift.report import charts
+    from drift.report.fmt import feature_value
 
     model = analysis.model
     mean = model.noise_["mean"].to_numpy(float)
@@ -75,7 +75,7 @@ def _component_rule(model) -> str:
 
 
 def _role_rule(model) -> str:
-    from ..selection import STABLE_JACCARD
+    from drift.model.count_rules import STABLE_JACCARD
 
     rd = model.role_diagnostics_
     k = len(model.role_ids_)
@@ -105,7 +105,7 @@ def build_choice(analysis, b) -> dict:
     """How the component and role counts were chosen, with their charts and tables."""
     from markupsafe import Markup
 
-    from .. import charts
+    from drift.report import charts
 
     model = analysis.model
     comp, rd = model.component_diagnostics_, model.role_diagnostics_

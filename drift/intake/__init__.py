@@ -1,0 +1,27 @@
+"""Intake: season tables in, one clean table of player-seasons out.
+
+In
+    Paths to season files (CSV, Excel, Parquet) or folders of them, and an
+    :class:`IntakePolicy` (column map, name rules, units, filters).
+Out
+    :class:`RawSeasons` (one row per file row, drift's standard names, float
+    features, ``source_file``/``source_row``) and :class:`Prepared` (one row per
+    player-season, stints of traded players, kept and excluded rows with reasons,
+    the feature families in :class:`FeatureSpec`).
+
+Steps: read the files (``_readers``, ``_workbooks``, ``_rawtables``), parse cells
+(``_cells``), understand column names (``columns``), harmonise units (``units``),
+combine stints (``_stints``), fill unused shares and filter (``features``). The
+pre-fit checks (``preflight``) refuse settings the data cannot honour, and the dry
+run (``dry_run``) is ``drift check``: intake and filters, no fit.
+"""
+
+from drift.intake.dry_run import DataCheck, check_data, format_check
+from drift.intake.features import FeatureSpec, feature_spec
+from drift.intake.policy import REQUIRED_COLUMNS, STANDARD_COLUMNS, IntakePolicy, intake_policy
+from drift.intake.prepare import Prepared, prepare, reference_pool
+from drift.intake.read import RawSeasons, read_seasons
+
+__all__ = ["IntakePolicy", "intake_policy", "REQUIRED_COLUMNS", "STANDARD_COLUMNS", "RawSeasons", "read_seasons",
+           "Prepared", "prepare", "reference_pool", "FeatureSpec", "feature_spec", "DataCheck", "check_data",
+           "format_check"]

@@ -1,0 +1,104 @@
+"""Excel workbooks: find the data sheet(s) and the header row, read them whole or refuse.
+
+A sheet is a *data sheet* when one of its first :data:`~drift.rawtables.MAX_HEADER_ROW`
+rows names every required column (after the config's ``[columns]`` map and drift's
+name rules). Title rows above that header are skipped; sheets without such a row
+(notes, read-me, pivot sheets) are skipped and said so. Several data sheets are
+read whole when their columns agree and refused when they differ, so a workbook
+is never read half.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from drift.errors import InputError
+from drift.intake._rawtables import MAX_HEADER_ROW, RawTable, refuse_duplicates, season_label
+
+__all__ = ["read_workbook"]
+
+
+def _header_row(rows, required, recognise):
+    """(index of the header row, what it lacks at best) in the sheet's first rows."""
+    best = (None, sorted(required))
+    for i, row in enumerate(rows[:MAX_HEADER_ROW]):
+        names = [str(v).strip() for v in row if v is not None and str(v).strip() and str(v) != "nan"]
+        lacking = sorted(set(required) - recognise(names))
+        if not lacking:
+            return i, []
+        if len(lacking) < len(best[1]):
+            best = (None, lacking)
+    return best
+
+
+def _table(raw, header_at, where):
+    """The sheet below its header as a DataFrame of objects; blank rows inside refused."""
+    import pandas as pd
+
+    body = raw.iloc[header_at + 1:]
+    filled = body.notna().any(axis=1).to_numpy()
+    last = len(filled) - 1 - filled[::-1].argmax() if filled.any() else -1
+    body = body.iloc[: last + 1]
+    gaps = ~filled[: last + 1]
+    if gaps.any():
+        row = header_at + 2 + int(gaps.argmax())
+        raise InputError("row is empty inside the table; delete it so the rows below are not cut off",
+                         file=where, row=row)
+    header = raw.iloc[header_at].tolist()
+    keep, names = [], []
+    for j, name in enumerate(header):
+        text = "" if name is None or (isinstance(name, float) and pd.isna(name)) else str(name).strip()
+        if not text:
+            if body.iloc[:, j].notna().any():
+                raise InputError(f"column {j + 1} has values but no name in the header row "
+                                 f"(row {header_at + 1}); give it a name or delete it", file=where)
+            continue
+        keep.append(j)
+        names.append(text)
+    refuse_duplicates(names, where)
+    frame = body.iloc[:, keep].copy()
+    frame.columns = names
+    return frame.reset_index(drop=True)
+
+
+def read_workbook(path: Path, *, required, sheet=None, recognise):
+    """Every data sheet of a workbook as :class:`RawTable` s (see the module docstring)."""
+    import pandas as pd
+
+    sheets = pd.read_excel(path, sheet_name=None, header=None, dtype=object)
+    if sheet is not None:
+        if sheet not in sheets:
+            raise InputError(f"has no sheet {sheet!r} (config [intake] sheet); its sheets: {list(sheets)}",
+                             file=path)
+        sheets = {sheet: sheets[sheet]}
+    found, skipped = [], {}
+    for name, raw in sheets.items():
+        raw = raw.astype(object).where(raw.notna(), None)
+        at, lacking = _header_row(raw.values.tolist(), required, recognise)
+        if at is None:
+            skipped[name] = lacking
+        else:
+            found.append((name, raw, at))
+    if not found:
+        detail = "; ".join(f"sheet {n!r} lacks {lack}" for n, lack in skipped.items())
+        raise InputError(
+            f"no sheet has a header row (within its first {MAX_HEADER_ROW} rows) naming the required columns "
+            f"({detail}); map your names in the config's [columns] table, or name the sheet with "
+            "[intake] sheet", file=path)
+    tables = []
+    for name, raw, at in found:
+        where = f"{path}, sheet {name!r}"
+        label, problem = season_label(name)
+        if label is None:
+            label, problem = season_label(path.stem)
+        tables.append(RawTable(_table(raw, at, where), where, at + 2, label, problem))
+    if len(tables) > 1:
+        first = list(tables[0].frame.columns)
+        for t in tables[1:]:
+            if sorted(t.frame.columns) != sorted(first):
+                extra = sorted(set(t.frame.columns) ^ set(first))
+                raise InputError(
+                    f"has several data sheets ({', '.join(repr(n) for n, _, _ in found)}) whose columns differ "
+                    f"({extra[:6]}); name the one to read with [intake] sheet, or give them the same columns "
+                    "to read them all", file=path)
+    return tables
