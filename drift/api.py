@@ -134,7 +134,7 @@ OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "st
 
 
 def write_outputs(analysis: Analysis, folder, *, progress=None):
-    """Write every output file of a run into ``folder`` (see README, "Outputs").
+    """Write every output file of a run into ``folder`` (see docs/outputs.md).
 
     CSV text cells are neutralised for spreadsheets (:mod:`drift.safecsv`).
     """

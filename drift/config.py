@@ -148,7 +148,7 @@ def load_config(path=None) -> Config:
     except IsADirectoryError:
         raise ConfigError(f"{path}: is a folder; give the config file") from None
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise ConfigError(f"{path}: not valid TOML ({exc}); see README 'Config file'") from None
+        raise ConfigError(f"{path}: not valid TOML ({exc}); see docs/input.md, 'Config file'") from None
     values = {}
     for section, body in raw.items():
         if section not in _SECTIONS:

@@ -152,7 +152,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     Returns
     -------
     Checked
-        The checks (see README, "In-season check") and the rows not checked.
+        The checks (see docs/cli.md, "In-season check") and the rows not checked.
     """
     import pandas as pd
 

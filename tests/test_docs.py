@@ -10,6 +10,9 @@ from conftest import DEMO, ROOT
 from drift.cli import build_parser
 
 README = (ROOT / "README.md").read_text(encoding="utf-8")
+#: the README and every page of docs/: what a user can read
+DOCS = "\n".join([README] + [p.read_text(encoding="utf-8") for p in sorted((ROOT / "docs").glob("*.md"))])
+API_PAGE = (ROOT / "docs" / "api.md").read_text(encoding="utf-8")
 
 
 def test_first_lines_are_the_two_setup_commands():
@@ -23,7 +26,7 @@ def test_ci_runs_the_readme_test_line_word_for_word():
 
 
 def test_python_example_runs(tmp_path, monkeypatch):
-    code = re.search(r"```python\n(.*?)```", README, re.S).group(1)
+    code = re.search(r"```python\n(.*?)```", API_PAGE, re.S).group(1)
     code = code.replace('"demo_seasons"', repr(str(DEMO)))
     monkeypatch.chdir(tmp_path)
     exec(compile(code, "README.md", "exec"), {})
@@ -38,15 +41,22 @@ def test_every_cli_option_is_documented():
         for action in p._actions:
             for flag in action.option_strings:
                 if flag not in ("-h", "--help"):
-                    assert flag in README, f"{name} {flag} is not in the README"
+                    assert flag in DOCS, f"{name} {flag} is not in the docs"
 
 
 def test_every_output_file_and_column_is_documented(small_run):
     code, out = small_run  # a run with --previous writes every file drift can write
     assert code == 0
     for path in out.iterdir():
-        assert f"`{path.name}`" in README, path.name
+        assert f"`{path.name}`" in DOCS, path.name
     moves = pd.read_csv(out / "moves.csv", nrows=1)
     for col in moves.columns:
         generic = re.sub(r"driver_\d", "driver_k", re.sub(r"pc\d+$", "pc1", col))
-        assert col in README or generic in README or col.startswith("driver_"), col
+        assert col in DOCS or generic in DOCS or col.startswith("driver_"), col
+
+
+def test_readme_is_a_landing_page_and_its_links_resolve():
+    assert len(README.splitlines()) <= 150
+    for target in re.findall(r"\]\(([^)#:]+)(?:#[^)]*)?\)", DOCS):
+        if not target.startswith("http"):
+            assert (ROOT / target).exists() or (ROOT / "docs" / target).exists(), target

@@ -280,7 +280,7 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
         Season files (``.csv``, ``.xlsx``, ``.parquet``) and/or folders of them.
         The season comes from a ``season`` column, else from the file (or sheet) name.
     config : Config or IntakePolicy, optional
-        Column map, name rules, sheet and units (see README, "Config file").
+        Column map, name rules, sheet and units (see docs/input.md, "Config file").
 
     Returns
     -------
@@ -317,7 +317,7 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
                          "remove it", file=files[0])
     all_features = _feature_order(per_table, config)
     if not all_features:
-        raise InputError("no numeric feature columns found; see README 'Input tables'", file=files[0])
+        raise InputError("no numeric feature columns found; see docs/input.md", file=files[0])
     for (where, _), frame in zip(per_table, frames):
         lacking = [f for f in all_features if f not in frame.columns]
         if lacking:

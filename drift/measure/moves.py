@@ -67,7 +67,7 @@ def pair_moves(model, table, placements, first, second, *, alpha, n_drivers=3, k
 
     Returns
     -------
-    DataFrame, one row per pair (columns in README, "moves.csv").
+    DataFrame, one row per pair (columns in docs/outputs.md, "moves.csv").
     """
     import numpy as np
     from scipy.stats import chi2, norm

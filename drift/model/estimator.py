@@ -51,7 +51,7 @@ class RoleModel(FittingSteps, FileMethods):
     max_roles : int
         Largest k tried by ``"auto"``.
     noise_policy : {"shrink", "weight", "shrink+weight", "none"}
-        How small samples are kept from dominating (see README, "Noise policy").
+        How small samples are kept from dominating (see docs/method.md, "Noise policy").
     seed : int
     n_init : int
         K-means restarts.

@@ -25,7 +25,7 @@ latest role and the decayed minutes behind the summary.
 
 :func:`drift.backtest.backtest` refits all of it on the seasons before each season and scores it
 against what happened, beside the naive forecast "same role as last season"
-with its own best constant confidence (see README, "Outlook").
+with its own best constant confidence (see docs/cli.md, "Preseason outlook").
 """
 
 from __future__ import annotations
@@ -34,7 +34,7 @@ from drift.errors import NotFittedError
 
 __all__ = ["RoleOutlook", "history_table", "OUTLOOK_COLUMNS"]
 
-#: outlook.csv columns before the per-role probabilities (see README, "Outlook")
+#: outlook.csv columns before the per-role probabilities (see docs/cli.md, "Preseason outlook")
 OUTLOOK_COLUMNS = ("player_id", "player", "season", "team", "minutes", "role", "projected_role",
                    "projected_prob", "stay_prob", "change_prob", "position_spread", "history_seasons",
                    "history_minutes")
