@@ -59,7 +59,7 @@ def inseason(seed, folder):
         block = league.rows[league.rows["season"] == league.partial_season]
         block.drop(columns="season").to_csv(part_dir / f"{league.partial_season}.csv", index=False)
         part = prepare(part_dir, Config(min_games=5))
-        checks, _ = check_partial(model, part.kept, prepared.kept, alpha=ALPHA)
+        checks, _ = check_partial(model, part.kept, prepared.kept, alpha=ALPHA, season_games=82)
         x = _true_change(checks, league.truth)
         still, moved = x[~x["real"]], x[x["real"]]
         rows.append({"seed": seed, "games": games, "no_change": len(still), "real_changes": len(moved),

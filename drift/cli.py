@@ -23,72 +23,45 @@ _DEMO_EXAMPLE = """example:
 """
 
 
-def _components(text: str):
-    if text in ("parallel", "elbow", "variance"):
-        return text
+def _literal(text: str):
+    """Command-line text as the value a config file would hold: a whole number, a number, or text."""
+    try:
+        return int(text)
+    except ValueError:
+        pass
     try:
         value = float(text)
     except ValueError:
-        raise argparse.ArgumentTypeError(
-            f"{text!r}: give parallel, elbow, variance, a count (5) or a fraction (0.8)") from None
-    if value >= 1 and value.is_integer():
-        return int(value)
-    if 0 < value < 1:
-        return value
-    raise argparse.ArgumentTypeError(f"{text!r}: a count must be a whole number >= 1, a fraction in (0, 1)")
-
-
-def _roles(text: str):
-    if text == "auto":
         return text
-    try:
-        value = int(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{text!r}: give auto or a whole number >= 2") from None
-    if value < 2:
-        raise argparse.ArgumentTypeError(f"{text!r}: the number of roles must be >= 2")
-    return value
+    return int(value) if value.is_integer() and value >= 1 else value
 
 
-def _positive(text: str):
-    value = _count(text)
-    if value < 1:
-        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number >= 1")
-    return value
+def _setting(name: str, rule_name: str, *args):
+    """An argparse type that checks a value with the setting's own validator (drift.settings_rules).
+
+    The CLI, the TOML file, the model file and the API refuse the same values with the same words.
+    """
+    from drift import settings_rules
+    from drift.errors import ConfigError
+
+    rule = getattr(settings_rules, rule_name)
+    rule = rule(*args) if args else rule
+
+    def parse(text: str):
+        try:
+            return rule(name, _literal(text))
+        except ConfigError as exc:
+            raise argparse.ArgumentTypeError(str(exc)) from None
+
+    parse.__name__ = name  # argparse names the type in its messages
+    return parse
 
 
-def _seed(text: str):
-    from drift.settings_rules import MAX_SEED
+def _defaults():
+    """The settings' own defaults, for the help texts (each has one home: its settings part)."""
+    from drift.config import IntakePolicy, ModelSettings, MoveSettings
 
-    try:
-        value = int(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number") from None
-    if not 0 <= value <= MAX_SEED:
-        raise argparse.ArgumentTypeError(f"{text!r}: a seed is a whole number from 0 to {MAX_SEED}")
-    return value
-
-
-def _finite(text: str):
-    import math
-
-    try:
-        value = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{text!r}: give a number") from None
-    if not math.isfinite(value):
-        raise argparse.ArgumentTypeError(f"{text!r}: give a finite number")
-    return value
-
-
-def _count(text: str):
-    try:
-        value = int(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number") from None
-    if value < 0:
-        raise argparse.ArgumentTypeError(f"{text!r}: give a whole number >= 0")
-    return value
+    return IntakePolicy(), ModelSettings(), MoveSettings()
 
 
 class _Parser(argparse.ArgumentParser):
@@ -144,10 +117,12 @@ class _Parser(argparse.ArgumentParser):
 
 def _add_intake_options(p):
     p.add_argument("--config", metavar="TOML", help="config file (columns, filters, model settings)")
-    p.add_argument("--min-games", type=_count, metavar="N",
-                   help="fewest games for a season to be placed (run: default 20; place: the model's)")
-    p.add_argument("--min-minutes", type=_finite, metavar="MPG",
-                   help="fewest minutes per game (run: default 10; place: the model's)")
+    intake = _defaults()[0]
+    p.add_argument("--min-games", type=_setting("min_games", "count_from", 0), metavar="N",
+                   help=f"fewest games for a season to be placed (run: default {intake.min_games:g}; "
+                        "place: the model's)")
+    p.add_argument("--min-minutes", type=_setting("min_minutes_per_game", "non_negative"), metavar="MPG",
+                   help=f"fewest minutes per game (run: default {intake.min_minutes_per_game:g}; place: the model's)")
 
 
 def _add_progress_options(p):
@@ -168,6 +143,10 @@ def _progress(args):
 
 def build_parser() -> argparse.ArgumentParser:
     from drift import __version__
+    from drift.constants import NOISE_POLICIES
+    from drift.placing import SEASON_GAMES
+
+    _, model, moves = _defaults()
 
     parser = _Parser(
         prog="drift", description="Season-over-season role drift for basketball front offices.")
@@ -183,17 +162,19 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--out", required=True, metavar="DIR", help="output folder (replaced only on success)")
     _add_intake_options(run)
     run.add_argument("--reference", nargs="+", metavar="SEASON", help="seasons of the pool (default: all)")
-    run.add_argument("--roles", type=_roles, metavar="K", help="number of roles, or auto (default)")
-    run.add_argument("--components", type=_components, metavar="N|FRACTION|RULE",
-                     help="components: variance (default, 90%%), parallel, elbow, a count or a fraction")
-    run.add_argument("--noise-policy", choices=("shrink", "weight", "shrink+weight", "none",
-                                                "shrink+restandardise"),
-                     help="how small samples are handled (default shrink)")
+    run.add_argument("--roles", type=_setting("roles", "roles"), metavar="K",
+                     help=f"number of roles, or auto (default {model.roles})")
+    run.add_argument("--components", type=_setting("components", "components"), metavar="N|FRACTION|RULE",
+                     help=f"components: variance (default {model.components}, "
+                          f"{100 * model.variance_threshold:.0f}%%), parallel, elbow, a count or a fraction")
+    run.add_argument("--noise-policy", choices=NOISE_POLICIES,
+                     help=f"how small samples are handled (default {model.noise_policy})")
     run.add_argument("--previous", metavar="MODEL", help="earlier model.json whose role ids to keep")
     run.add_argument("--compare", nargs=2, metavar=("A", "B"), help="also compare these two seasons")
-    run.add_argument("--alpha", type=_finite, help="level for 'beyond noise' (default 0.01)")
-    run.add_argument("--seed", type=_seed, help="random seed (default 0)")
-    run.add_argument("--self-check", type=_count, default=0, metavar="N",
+    run.add_argument("--alpha", type=_setting("alpha", "fraction_open"),
+                     help=f"level for 'beyond noise' (default {moves.alpha:g})")
+    run.add_argument("--seed", type=_setting("seed", "seed"), help=f"random seed (default {model.seed})")
+    run.add_argument("--self-check", type=_setting("self_check", "count_from", 0), default=0, metavar="N",
                      help="simulate N leagues like yours and report how often roles and role changes "
                           "are recovered (about one fit each; default 0: off)")
     _add_progress_options(run)
@@ -207,9 +188,10 @@ def build_parser() -> argparse.ArgumentParser:
     _add_intake_options(place)
     place.add_argument("--against", nargs="+", metavar="DATA",
                        help="full seasons to check the files against (in-season check; default 5 games)")
-    place.add_argument("--alpha", type=float, help="with --against: level for 'beyond noise' (default 0.01)")
-    place.add_argument("--season-games", type=_positive, default=82, metavar="N",
-                       help="with --against: games in a full season (default 82)")
+    place.add_argument("--alpha", type=_setting("alpha", "fraction_open"),
+                       help=f"with --against: level for 'beyond noise' (default {moves.alpha:g})")
+    place.add_argument("--season-games", type=_setting("season_games", "count_from", 1), default=SEASON_GAMES,
+                       metavar="N", help=f"with --against: games in a full season (default {SEASON_GAMES})")
     _add_progress_options(place)
 
     check = sub.add_parser("check", help="dry run: say how every column was read, fit nothing",
@@ -220,8 +202,8 @@ def build_parser() -> argparse.ArgumentParser:
     demo = sub.add_parser("demo", help="write the fictional demo league",
                           epilog=_DEMO_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
     demo.add_argument("--out", required=True, metavar="DIR", help="folder for the season files")
-    demo.add_argument("--seed", type=_seed, default=2024, help="seed of the league (default 2024)")
-    demo.add_argument("--partial-games", type=_positive, metavar="N",
+    demo.add_argument("--seed", type=_setting("seed", "seed"), default=2024, help="seed of the league (default 2024)")
+    demo.add_argument("--partial-games", type=_setting("partial_games", "count_from", 1), metavar="N",
                       help="also write the first N games of the next season to DIR/partial/")
     for p in (run, place, check, demo):  # --debug also after the command name
         p.add_argument("--debug", action="store_true", default=argparse.SUPPRESS, help=argparse.SUPPRESS)

@@ -17,7 +17,11 @@ from drift.threads import thread_limited
 if TYPE_CHECKING:  # pragma: no cover - annotations only; pandas loads on first use
     import pandas as pd
 
-__all__ = ["place", "place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAMES", "INSEASON_FILES"]
+#: games in a full regular season, the in-season check's horizon (common practice, no source: an
+#: 82-game schedule); ``drift place --season-games`` changes it for other leagues
+SEASON_GAMES = 82
+
+__all__ = ["SEASON_GAMES", "place", "place_files", "check_files", "Placed", "Checked", "INSEASON_MIN_GAMES", "INSEASON_FILES"]
 
 
 @dataclass(frozen=True)
@@ -128,7 +132,7 @@ INSEASON_FILES = ("inseason.csv", "inseason_excluded.csv", "inseason.html")
 
 
 def check_files(model_path, partial, against, out, config: Config | None = None, *, min_games=None,
-                min_minutes_per_game=None, alpha=None, season_games=82, inputs=()):
+                min_minutes_per_game=None, alpha=None, season_games=SEASON_GAMES, inputs=()):
     """The in-season check: partial-season files against full seasons, written to a folder.
 
     Parameters

@@ -21,6 +21,75 @@ ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_seasons"
 
 
+class _SharedFits:
+    """Each distinct fit runs once per test run: ``RoleModel.fit`` memoised on its data and settings.
+
+    The key is everything a fit depends on (the pool's rows, the features, every model setting and
+    the intake policy), so a hit returns exactly the model the fit would have made; the warnings the
+    real fit raised are raised again on every hit. The demo league is fitted by several fixtures,
+    the CLI, the API and the docs' example with the same settings: once is enough. Tests marked
+    ``refit`` (determinism checks) always fit for real.
+    """
+
+    def __init__(self):
+        self.enabled = True
+        self.store = {}
+        self.fits = 0
+
+    def key(self, model, pool, features, intake):
+        import json
+
+        values = pd.util.hash_pandas_object(pool, index=False).to_numpy()
+        intake_key = None if intake is None else json.dumps(intake.to_dict(), sort_keys=True, default=str)
+        return (tuple(pool.columns), len(pool), values.tobytes(), tuple(features),
+                json.dumps(model.settings.to_dict(), sort_keys=True, default=str), intake_key)
+
+    def install(self):
+        import copy
+        import warnings
+
+        from drift.model.estimator import RoleModel
+
+        real_fit = RoleModel.fit
+        shared = self
+
+        def fit(model, pool, *, features, intake=None):
+            if not shared.enabled:
+                return real_fit(model, pool, features=features, intake=intake)
+            key = shared.key(model, pool, features, intake)
+            if key not in shared.store:
+                with warnings.catch_warnings(record=True) as caught:
+                    warnings.simplefilter("always")
+                    real_fit(model, pool, features=features, intake=intake)
+                shared.fits += 1
+                shared.store[key] = (copy.deepcopy(model.__dict__), [(w.message, w.category) for w in caught])
+            state, said = shared.store[key]
+            model.__dict__.update(copy.deepcopy(state))
+            for message, category in said:
+                warnings.warn(message, category, stacklevel=2)
+            return model
+
+        fit.__doc__ = real_fit.__doc__
+        RoleModel.fit = fit
+
+
+SHARED_FITS = _SharedFits()
+SHARED_FITS.install()
+
+
+@pytest.fixture(autouse=True)
+def _fit_for_real_when_marked(request):
+    """Tests marked ``refit`` check that fitting itself is deterministic: no shared fits for them."""
+    if request.node.get_closest_marker("refit") is None:
+        yield
+        return
+    SHARED_FITS.enabled = False
+    try:
+        yield
+    finally:
+        SHARED_FITS.enabled = True
+
+
 @pytest.fixture(scope="session")
 def demo_truth():
     return pd.read_csv(DEMO / "truth" / "truth.csv", dtype={"season": str})

@@ -27,7 +27,7 @@ def partial_league(tmp_path_factory):
 @pytest.fixture(scope="module")
 def checked(partial_league, demo_model, demo_prepared):
     _, _, part = partial_league
-    return check_partial(demo_model, part.kept, demo_prepared.kept, alpha=0.01)
+    return check_partial(demo_model, part.kept, demo_prepared.kept, alpha=0.01, season_games=82)
 
 
 def true_change(checks, truth):

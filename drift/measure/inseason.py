@@ -138,7 +138,7 @@ def _full_move_stat(model, table, first, second, scores):
     return _statistic(model, table.iloc[first], table.iloc[second], target=target)
 
 
-def check_partial(model, partial, against, *, alpha, season_games=82):
+def check_partial(model, partial, against, *, alpha, season_games):
     """Compare every partial season with the player's latest earlier season.
 
     Parameters
