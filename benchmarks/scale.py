@@ -137,7 +137,7 @@ def child_place(data, fmt, out, model):
     st = Stages(cpu)
     placed = place_files(model, sorted(Path(data).glob(f"*.{fmt}")), Path(out) / "placed.csv", progress=st)
     stages, cpu_s = _stage_times(st, cpu, imported, start)
-    return {"stages": stages, "cpu": cpu_s, "rows": int(len(placed)), "peak_mb": _peak_mb()}
+    return {"stages": stages, "cpu": cpu_s, "rows": int(len(placed.placements)), "peak_mb": _peak_mb()}
 
 
 def child_bare_place(data, fmt, out, model):
