@@ -56,8 +56,20 @@ def _formatter(series):
     if dtype == np.bool_:
         return lambda values: ["True" if v else "False" for v in values.tolist()]
     if dtype == object or isinstance(dtype, pd.StringDtype):
-        return lambda values: [_text_cell(v) for v in values]
+        return _texts
     return None
+
+
+def _texts(values):
+    """Text cells of a block, each distinct text formatted once (names, teams and roles repeat)."""
+    import numpy as np
+    import pandas as pd
+
+    if pd.api.types.infer_dtype(values, skipna=True) != "string":
+        return [_text_cell(v) for v in values]  # mixed cells: 1 and 1.0 must not be merged as one
+    codes, uniques = pd.factorize(values, use_na_sentinel=True)
+    table = np.array([_quoted(str(v)) for v in uniques] + [""], dtype=object)
+    return table[codes].tolist()  # code -1 (a missing cell) picks the trailing ""
 
 
 def _has_carriage_return(series) -> bool:

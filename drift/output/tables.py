@@ -21,6 +21,20 @@ def _safe(value):
     return value
 
 
+def _neutralised(series):
+    """``series.map(_safe)``, computed once per distinct text when every cell is text or missing."""
+    import pandas as pd
+
+    if pd.api.types.infer_dtype(series, skipna=True) != "string":
+        return series.map(_safe)
+    risky = series.str.startswith(RISKY_STARTS, na=False)
+    if not risky.any():
+        return series
+    out = series.copy()
+    out[risky] = "'" + series[risky]
+    return out
+
+
 def neutralise(frame):
     """A copy of ``frame`` whose text cells cannot start a spreadsheet formula."""
     import pandas as pd
@@ -29,7 +43,7 @@ def neutralise(frame):
     for col in out.columns:
         series = out[col]
         if pd.api.types.is_object_dtype(series) or pd.api.types.is_string_dtype(series):
-            out[col] = series.map(_safe)
+            out[col] = _neutralised(series)
     safe_names = [_safe(c) if isinstance(c, str) else c for c in out.columns]
     out.columns = safe_names
     return out
