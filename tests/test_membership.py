@@ -49,3 +49,22 @@ def test_within_cov_of_true_styles_removes_the_noise():
     x = centroids[labels] + rng.normal(size=(4000, 2)) * np.sqrt(1.0 + 0.5)
     w = true_within_cov(x, labels, centroids, noise)
     np.testing.assert_allclose(w, np.eye(2), atol=0.1)  # true spread 1, noise 0.5 taken off
+
+
+def test_within_cov_from_a_bounded_sample_matches_the_whole_pool():
+    """Large pools estimate the q x q covariance on a seeded sample (drift.model.counting.MEMBERSHIP_ROWS)."""
+    from drift.model.counting import subsample
+
+    rng = np.random.default_rng(3)
+    q, k, n = 3, 4, 40_000
+    centroids = rng.normal(0, 4, (k, q))
+    labels = rng.integers(0, k, n)
+    true_w = np.diag([1.0, 0.5, 0.25])
+    noise = np.broadcast_to(0.1 * np.eye(q), (n, q, q))
+    x = centroids[labels] + rng.multivariate_normal(np.zeros(q), true_w + 0.1 * np.eye(q), n)
+    whole = true_within_cov(x, labels, centroids, noise)
+    idx = subsample(n, 10_000, 0)
+    sample = true_within_cov(x[idx], labels[idx], centroids, noise[idx])
+    # the known truth is recovered by both, and the sample's error is sampling error only
+    np.testing.assert_allclose(whole, true_w, atol=0.03)
+    np.testing.assert_allclose(sample, whole, atol=0.03)

@@ -111,9 +111,14 @@ class FittingSteps:
     def _fit_membership(self, scores, labels, state):
         """Within-role covariance of true styles: the pool's scatter less its placement noise."""
         from drift.model._membership import placement_cov, true_within_cov
+        from drift.model.counting import MEMBERSHIP_ROWS, subsample
 
-        self.within_cov_ = true_within_cov(scores, labels, self.centroids_,
-                                           placement_cov(self.loadings(), state))
+        noise = placement_cov(self.loadings(), state)
+        # a q x q covariance is pinned down by a bounded seeded sample; larger pools only cost time
+        idx = subsample(len(scores), MEMBERSHIP_ROWS, self.seed)
+        if idx is not None:
+            scores, labels, noise = scores[idx], labels[idx], noise[idx]
+        self.within_cov_ = true_within_cov(scores, labels, self.centroids_, noise)
 
     def _describe_roles(self, given):
         from drift.model.describe import describe_role, name_roles

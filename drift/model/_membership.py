@@ -37,11 +37,12 @@ def placement_cov(loadings, state):
     import numpy as np
 
     var = state.factor * state.var
-    cov = np.einsum("qp,np,rp->nqr", loadings, var, loadings)
     u = np.sqrt(state.factor) * state.u
     lu = u @ loadings.T  # (n, q)
-    # multinomial shares: Var adds u^2 on the diagonal and -u_a u_b off it
-    return cov + np.einsum("qp,np,rp->nqr", loadings, u ** 2, loadings) - lu[:, :, None] * lu[:, None, :]
+    # L diag(var + u^2) L^T per row (multinomial shares: Var adds u^2 on the diagonal and
+    # -u_a u_b off it), as one optimised contraction rather than a naive four-index loop
+    cov = np.einsum("qp,np,rp->nqr", loadings, var + u ** 2, loadings, optimize=True)
+    return cov - lu[:, :, None] * lu[:, None, :]
 
 
 def true_within_cov(scores, labels, centroids, noise_cov, *, priors=None, n_steps: int = 5):
@@ -91,13 +92,20 @@ def membership_probabilities(scores, centroids, within_cov, priors, point_cov=No
     from scipy.special import softmax
 
     n, q = scores.shape
-    cov = np.broadcast_to(within_cov, (n, q, q)) if point_cov is None else within_cov[None] + point_cov
-    cov = cov + np.eye(q)[None] * 1e-12
-    chol = np.linalg.cholesky(cov)
-    log_det = 2 * np.log(np.diagonal(chol, axis1=1, axis2=2)).sum(axis=1)
+    # whiten with the inverse Cholesky factor, computed once (one per row with point noise, else
+    # one in all) and shared by every role: k batched solves would factor each row k times
+    if point_cov is None:
+        chol = np.linalg.cholesky(within_cov + np.eye(q) * 1e-12)
+        inv = np.linalg.inv(chol)
+        log_det = np.full(n, 2 * np.log(np.diagonal(chol)).sum())
+    else:
+        chol = np.linalg.cholesky(within_cov[None] + point_cov + np.eye(q)[None] * 1e-12)
+        inv = np.linalg.inv(chol)
+        log_det = 2 * np.log(np.diagonal(chol, axis1=1, axis2=2)).sum(axis=1)
     priors = np.asarray(priors, float) / np.sum(priors)
     logits = np.empty((n, len(centroids)))
     for r, c in enumerate(centroids):
-        white = np.linalg.solve(chol, (scores - c)[..., None])[..., 0]
+        d = scores - c
+        white = d @ inv.T if inv.ndim == 2 else np.einsum("nij,nj->ni", inv, d)
         logits[:, r] = np.log(priors[r]) - 0.5 * (white ** 2).sum(axis=1) - 0.5 * log_det
     return softmax(logits, axis=1)

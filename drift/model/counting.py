@@ -21,7 +21,7 @@ small leagues give the same results as calling the rules directly.
 from __future__ import annotations
 
 __all__ = ["select_components", "select_roles", "fit_kmeans", "subsample",
-           "COMPONENT_ROWS", "ROLE_SWEEP_ROWS", "STABILITY_ROWS", "KMEANS_ROWS", "SILHOUETTE_ROWS"]
+           "MEMBERSHIP_ROWS", "COMPONENT_ROWS", "ROLE_SWEEP_ROWS", "STABILITY_ROWS", "KMEANS_ROWS", "SILHOUETTE_ROWS"]
 
 #: automatic component rules run on at most this many rows
 COMPONENT_ROWS = 20_000
@@ -33,6 +33,8 @@ STABILITY_ROWS = 3_000
 KMEANS_ROWS = 20_000
 #: silhouette is computed on a seeded sample of at most this many rows
 SILHOUETTE_ROWS = 3_000
+#: the within-role covariance of true styles (q x q) is estimated on at most this many rows
+MEMBERSHIP_ROWS = 50_000
 
 
 def subsample(n: int, size: int, seed: int):
