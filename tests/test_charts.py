@@ -6,7 +6,7 @@ import matplotlib
 import pytest
 
 import drift
-from drift.report import charts
+from drift.report import _charts as charts
 
 
 @pytest.fixture(scope="module")

@@ -6,7 +6,7 @@ import pytest
 
 from drift.config import Config
 from drift.errors import ConfigError
-from drift.intake.columns import normalise, understand_columns
+from drift.intake._columns import normalise, understand_columns
 
 
 def _read(names, config=None):

@@ -135,7 +135,7 @@ def test_report_shows_the_outlook_and_its_backtest(demo_run):
     """The run's report (the session's CLI run): Next season section, method tables, player pages."""
     import html as html_lib
 
-    from drift.report.fmt import percent
+    from drift.report._fmt import percent
 
     code, out = demo_run
     assert code == 0

@@ -11,7 +11,7 @@ from html.parser import HTMLParser
 import pytest
 
 from drift.report import CAUTIONS, ReportContext, build_context, render_report
-from drift.report.players import PROFILE_ROWS
+from drift.report._players import PROFILE_ROWS
 
 
 class _Page(HTMLParser):
@@ -188,13 +188,13 @@ def test_demo_report_is_bounded(page):
 
 @pytest.mark.parametrize("value, text", [(0.339, "34%"), (0.0, "0%"), (0.9991, "100%")])
 def test_percent(value, text):
-    from drift.report.fmt import percent
+    from drift.report._fmt import percent
 
     assert percent(value) == text
 
 
 def test_membership_and_strength_words():
-    from drift.report.fmt import membership, strength
+    from drift.report._fmt import membership, strength
 
     assert membership(0.9996) == ">99%" and membership(0.5) == "50%" and membership(0.004) == "<1%"
     assert strength(0.2, 0.8, 0.01) == "within noise"
@@ -211,9 +211,9 @@ def test_data_section_says_how_each_column_was_read(page):
 
 def test_caps_keep_a_large_league_bounded(demo_analysis, monkeypatch):
     """With the limits lowered, the demo league behaves as a large one: pages, rows and links stay bounded."""
+    from drift.report import _moves as mv
+    from drift.report import _outlook as ol
     from drift.report import context as ctx
-    from drift.report import moves as mv
-    from drift.report import outlook as ol
 
     monkeypatch.setattr(ctx, "MAX_PLAYER_PAGES", 40)
     monkeypatch.setattr(ol, "OUTLOOK_MAX", 30)
@@ -282,7 +282,7 @@ def test_player_page_says_why_a_season_is_missing_and_shows_stints(context, demo
 
 def test_percentage_point_changes_read_pp(context, page):
     # "pts" read as points scored; a share's change is in percentage points, said on hover and in a legend
-    from drift.report.moves import _change_text
+    from drift.report._moves import _change_text
 
     assert _change_text("three_pa_rate", -0.591) == "-59.1 pp"
     assert _change_text("share_spot_up", 0.03) == "+3.0 pp" and _change_text("usage_pct", 2.5) == "+2.5 pp"
@@ -292,7 +292,7 @@ def test_percentage_point_changes_read_pp(context, page):
 
 
 def test_p_values_read_at_any_size():
-    from drift.report.fmt import figures_title, p_text
+    from drift.report._fmt import figures_title, p_text
 
     assert p_text(0.0342) == "0.034" and p_text(2.3e-5) == "2.3e-05" and p_text(1.2e-17) == "< 1e-10"
     assert figures_title(1.0, 0.5, 9.0, 1.2e-17).endswith("p < 1e-10")

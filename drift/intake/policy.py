@@ -74,8 +74,8 @@ class IntakePolicy(SettingsPart):
 
 def _check_intake_rules(policy):
     """Validate the column-reading rules of [intake] (see drift.columns, drift.units)."""
-    from drift.intake.columns import parse_read_rule, understand_columns
-    from drift.intake.units import UNIT_WORDS
+    from drift.intake._columns import parse_read_rule, understand_columns
+    from drift.intake._units import UNIT_WORDS
 
     for pattern, spec in policy.read.items():
         try:

@@ -95,7 +95,7 @@ def _files_of(paths) -> list[Path]:
 
 
 def _plan(config):
-    from drift.intake.columns import understand_columns
+    from drift.intake._columns import understand_columns
 
     def text_columns(names):
         return {r.source for r in understand_columns(names, config) if r.role == "standard" and r.name in _TEXT}
@@ -164,7 +164,7 @@ def _season(frame, table, where):
 def _numbers(frame, readings, table, where, notes):
     """Parse every numeric column once; unknown columns that hold text are ignored."""
     from drift.intake._cells import numeric_column
-    from drift.intake.columns import ColumnReading
+    from drift.intake._columns import ColumnReading
 
     how, out = {}, []
     for r in readings:
@@ -221,8 +221,8 @@ def _check_counts(frame, where, first_row):
 
 def _read_table(table, config, notes):
     """One raw table -> (frame with drift names, readings, rate units)."""
-    from drift.intake.columns import understand_columns
-    from drift.intake.units import table_units
+    from drift.intake._columns import understand_columns
+    from drift.intake._units import table_units
 
     where, frame = table.where, table.frame
     if frame.empty and len(frame.columns) == 0:
@@ -294,7 +294,7 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     import pandas as pd
 
     from drift.intake._readers import read_tables
-    from drift.intake.units import harmonise_rates
+    from drift.intake._units import harmonise_rates
 
     config = intake_policy(config)
     if isinstance(paths, (str, Path)):

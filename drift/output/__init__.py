@@ -9,8 +9,8 @@ Out
     neutralised for spreadsheets.
 """
 
+from drift.output._marker import KINDS, MARKER
 from drift.output.folders import atomic_file, atomic_folder, check_output_file, check_output_folder
-from drift.output.marker import KINDS, MARKER
 from drift.output.tables import write_csv
 
 __all__ = ["atomic_folder", "atomic_file", "check_output_folder", "check_output_file", "write_csv", "MARKER",

@@ -27,7 +27,7 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from drift.errors import InputError
-from drift.output.marker import (
+from drift.output._marker import (
     KINDS,
     MARKER,
     clean_litter,

@@ -65,7 +65,7 @@ class Basis:
 
     def role(self, rid) -> dict:
         """A role as the templates show it: id, name, colour and css (its class for the colour)."""
-        from drift.report.fmt import slug
+        from drift.report._fmt import slug
 
         return {"id": rid, "name": self.names.get(rid, ""), "colour": self.colours.get(rid, "#888"),
                 "css": slug("c-", rid)}
@@ -101,8 +101,8 @@ def paged_players(analysis, consecutive, latest_pair, limit=None):
 
 def basis(analysis) -> Basis:
     """The shared facts of ``analysis`` (an :class:`~drift.api.Analysis`)."""
-    from drift.report import charts
-    from drift.report.fmt import slug
+    from drift.report import _charts as charts
+    from drift.report._fmt import slug
 
     model, moves, placements = analysis.model, analysis.moves, analysis.placements
     kind = moves["kind"] if len(moves) else None
@@ -126,7 +126,7 @@ class ReportContext:
     """Everything the report templates receive, one field per value.
 
     Shared shapes: a *role* is a dict ``id, name, colour, css`` (see :meth:`Basis.role`); a *move row* (see
-    :func:`drift.report.moves.move_rows`) has ``player, anchor`` (the player's page id, "" when he
+    :func:`drift.report._moves.move_rows`) has ``player, anchor`` (the player's page id, "" when he
     has none), ``pair, note`` (season pair and "skips a season" / "requested comparison" /
     "mid-season trade" / ""), ``teams, team_from, team_to, traded, role_from, role_to`` (roles),
     ``prob_from, prob_to`` (membership as text), ``status`` (changed, unsettled, shifted, steady),
@@ -205,7 +205,7 @@ class ReportContext:
         Next season, one per player placed in the latest season, likeliest to change role
         first: player_id, player, team, season, role, projected, stay, change, likeliest
         (the three likeliest roles with their chances), spread, seasons, minutes
-        (:func:`drift.report.outlook.outlook_rows`).
+        (:func:`drift.report._outlook.outlook_rows`).
     outlook_note : str
         What the outlook is and is not, in a few sentences.
     backtest : list of dict

@@ -10,11 +10,11 @@ __all__ = ["build_context", "template_environment", "render_report", "write_repo
 
 def _sections():
     """The section builders, in page order."""
-    from drift.report import data, front, moves, outlook, players, roles, teams
+    from drift.report import _data, _front, _moves, _outlook, _players, _roles, _teams
 
-    return (data.build_summary, front.build_front, players.build_players, players.build_search, teams.build_teams,
-            roles.build_roles, moves.build_method_moves, data.build_drift, outlook.build_outlook, roles.build_choice,
-            data.build_features, data.build_data)
+    return (_data.build_summary, _front.build_front, _players.build_players, _players.build_search,
+            _teams.build_teams, _roles.build_roles, _moves.build_method_moves, _data.build_drift,
+            _outlook.build_outlook, _roles.build_choice, _data.build_features, _data.build_data)
 
 
 def build_context(analysis):

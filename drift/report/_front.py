@@ -7,7 +7,7 @@ __all__ = ["build_front"]
 
 def build_front(analysis, b) -> dict:
     """Review of the latest pair (figures, every move with its status, trades), earlier pairs, requested."""
-    from drift.report.moves import capped
+    from drift.report._moves import capped
 
     cons, stints = b.consecutive, analysis.stints
     latest = b.latest_pair

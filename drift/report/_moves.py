@@ -36,7 +36,7 @@ def pair_label(row, season_index) -> tuple[str, str]:
 
 
 def _change_text(name, change):
-    from drift.report.fmt import sig
+    from drift.report._fmt import sig
 
     if name.startswith("ppp_"):
         return f"{change:+.2f} points per possession"
@@ -60,7 +60,7 @@ def _drivers(row, n=3):
 
 def move_rows(moves, b, *, comps=True):
     """Moves formatted for a table, in the order given (see the ``ReportContext`` docs for the keys)."""
-    from drift.report.fmt import figures_title, membership, strength
+    from drift.report._fmt import figures_title, membership, strength
 
     rows = []
     for row in moves.to_dict(orient="records"):
@@ -107,7 +107,7 @@ def build_method_moves(analysis, b) -> dict:
     """The evidence chart (z against sample, with the real decision line) and the calibration note."""
     from markupsafe import Markup
 
-    from drift.report import charts
+    from drift.report import _charts as charts
 
     a, slope = analysis.model.noise_calibration_
     noise_note = (f"The noise model was calibrated on {int(len(b.consecutive)):,} returning player pairs: "

@@ -53,7 +53,7 @@ def build_drift(analysis, b) -> dict:
     from markupsafe import Markup
 
     from drift.measure.role_drift import drift_headlines
-    from drift.report import charts
+    from drift.report import _charts as charts
 
     return {"drift_headlines": list(drift_headlines(analysis.role_drift)["text"]),
             "drift_chart": Markup(charts.drift_chart(analysis.role_drift, analysis.model))}
@@ -64,8 +64,8 @@ def build_features(analysis, b) -> dict:
     from markupsafe import Markup
 
     from drift.model.describe import feature_label
-    from drift.report import charts
-    from drift.report.fmt import percent, sig
+    from drift.report import _charts as charts
+    from drift.report._fmt import percent, sig
 
     model = analysis.model
     noise = model.noise_

@@ -31,7 +31,7 @@ class _Profiles:
         import numpy as np
 
         from drift.model.describe import feature_label
-        from drift.report.fmt import feature_value
+        from drift.report._fmt import feature_value
 
         own = np.argsort(-np.abs((x - self.mean[rid]) / self.sd), kind="stable")
         chosen = self.defining[rid] + [j for j in own if j not in self.defining[rid]][:PROFILE_ROWS[1]]
@@ -53,8 +53,8 @@ class _Profiles:
 def _outlooks(outlook, model):
     """Player id -> his outlook table: likeliest role, chance of keeping his role, the three
     likeliest roles with their chances, and the position spread (the outlook's uncertainty)."""
-    from drift.report.fmt import percent, sig
-    from drift.report.outlook import _probabilities
+    from drift.report._fmt import percent, sig
+    from drift.report._outlook import _probabilities
 
     if outlook is None or not len(outlook) or "player_id" not in outlook:
         return {}
@@ -99,7 +99,7 @@ def _stint_words(stints):
 
 def _left_out(analysis, wanted):
     """Player id -> his seasons the filters left out: season, team, why (in numbers)."""
-    from drift.report.fmt import filter_words
+    from drift.report._fmt import filter_words
 
     prepared = getattr(analysis, "prepared", None)
     if prepared is None or prepared.excluded is None or not len(prepared.excluded):
@@ -114,7 +114,7 @@ def _left_out(analysis, wanted):
 
 def _timeline(rows, into, b, stint_words=None, left_out=()):
     """His placed seasons and, in season order among them, the seasons left out with the reason."""
-    from drift.report.fmt import membership
+    from drift.report._fmt import membership
 
     stint_words = stint_words or {}
     out = [{"season": x["season"], "team": x["team"], "placed": False, "why": x["why"]} for x in left_out]
@@ -136,8 +136,8 @@ def build_players(analysis, b) -> dict:
     import pandas as pd
     from markupsafe import Markup
 
-    from drift.report import sketch
-    from drift.report.roles import axis_label
+    from drift.report import _sketch as sketch
+    from drift.report._roles import axis_label
 
     model, pl = analysis.model, analysis.placements.reset_index(drop=True)
     values = analysis.prepared.kept[list(model.features_)].to_numpy(float)
@@ -192,7 +192,7 @@ def build_players(analysis, b) -> dict:
 
 def _group(moves, b):
     """(player id -> his formatted moves in season order, (player id, season) -> the move into it)."""
-    from drift.report.moves import move_rows
+    from drift.report._moves import move_rows
 
     if not len(moves):
         return {}, {}

@@ -35,8 +35,8 @@ def build_roles(analysis, b) -> dict:
 
     from drift.model.count_rules import STABLE_JACCARD
     from drift.model.describe import feature_label
-    from drift.report import charts
-    from drift.report.fmt import feature_value
+    from drift.report import _charts as charts
+    from drift.report._fmt import feature_value
 
     model = analysis.model
     mean = model.noise_["mean"].to_numpy(float)
@@ -105,7 +105,7 @@ def build_choice(analysis, b) -> dict:
     """How the component and role counts were chosen, with their charts and tables."""
     from markupsafe import Markup
 
-    from drift.report import charts
+    from drift.report import _charts as charts
 
     model = analysis.model
     comp, rd = model.component_diagnostics_, model.role_diagnostics_

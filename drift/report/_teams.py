@@ -53,7 +53,7 @@ def _mix(block, b):
 def _roster(analysis, pl, config):
     """Season -> player id -> (first team, last team, why not placed or "") from every combined
     season row, placed or not: a player below the filters is still on his team's roster."""
-    from drift.report.fmt import filter_words
+    from drift.report._fmt import filter_words
 
     prepared = getattr(analysis, "prepared", None)
     raw = prepared.seasons if prepared is not None and prepared.seasons is not None else pl
@@ -113,9 +113,9 @@ def _movement(by_season, roster, team, s0, s1, b, moves_by):
 
 def build_teams(analysis, b) -> dict:
     """The team pages and the teams' index."""
-    from drift.report import moves as mv
-    from drift.report.fmt import strength
-    from drift.report.moves import capped
+    from drift.report import _moves as mv
+    from drift.report._fmt import strength
+    from drift.report._moves import capped
 
     pl = analysis.placements.copy()
     for col in ("team_first", "team_last"):
