@@ -2,7 +2,7 @@
 
     python benchmarks/membership.py [--leagues 12] [--out benchmarks/results/membership]
 
-For leagues of ``drift.simulate.family`` (fitted at their true role count, so the
+For leagues of ``drift.sim.family.family`` (fitted at their true role count, so the
 question is the probabilities and not the count), every placement's shown
 membership (``role_prob``, the probability of its nearest role) is binned; in
 each bin, the share of placements whose nearest role is their true role (roles

@@ -8,8 +8,8 @@ role that differs between the two. Reported: the share of players with no real
 change that are beyond noise (false flags; nominal = alpha) and called
 *changed*, and the share of real changes called *changed* (recall) and *too early*.
 
-Outlook: each league's backtest (:func:`drift.backtest.backtest`) on the six
-demo seeds and ten held-out leagues of :mod:`drift.simulate` (4 to 12 roles,
+Outlook: each league's backtest (:func:`drift.outlook.backtest.backtest`) on the six
+demo seeds and ten held-out leagues of :mod:`drift.sim.family` (4 to 12 roles,
 blends, change rates from none to 12%), pooled: log loss and Brier score beside
 the naive "same role as last season", and the calibration tables.
 

@@ -3,13 +3,13 @@
     python benchmarks/role_count.py [--leagues 60] [--held-out 20] [--seeds 0 1 2]
                                     [--out benchmarks/results/role_count] [--reps NAME ...]
 
-For every league of ``drift.simulate.family`` (and, separately, the held-out
+For every league of ``drift.sim.family.family`` (and, separately, the held-out
 leagues from ``HELD_OUT_START``) and every representation (component rule and
 noise policy), the reference model is fitted with ``roles="auto"`` once per seed;
 its per-k diagnostics give the k every role rule would choose (gap consensus,
 gap global, single gap, the former vote, silhouette, Calinski-Harabasz), plus the
 true count. The pipeline is then run at each chosen k (one fit per k, seed 0,
-cached) and scored against the truth with ``drift.simulate.recovery``: exact
+cached) and scored against the truth with ``drift.sim.family.recovery``: exact
 count, within one, ARI, role-change precision / recall / F1, no-change false
 flags, beyond-noise rates of no-change pairs at alpha 0.01 and 0.05 (overall and
 by quartile of the smaller of the two seasons' minutes), and how often the pick

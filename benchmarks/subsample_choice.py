@@ -1,8 +1,8 @@
 """Does the automatic role count chosen on a seeded sample hold against the full pool?
 
-``drift.workload`` runs the automatic role-count rule on at most ``ROLE_SWEEP_ROWS``
+``drift.model.counting`` runs the automatic role-count rule on at most ``ROLE_SWEEP_ROWS``
 pool rows and fits only the final K-means on every row. Here simulated leagues
-(:mod:`drift.simulate`, held-out seeds) are fitted twice with the default settings:
+(:mod:`drift.sim.family`, held-out seeds) are fitted twice with the default settings:
 once with the sweep on the whole pool, once on a sample of a third of it (the
 same ratio as 5,000 rows of a 15,000-row pool; smaller pools keep the run short).
 It prints, per league, both choices, the adjusted Rand index between the two

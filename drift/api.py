@@ -136,7 +136,7 @@ OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "st
 def write_outputs(analysis: Analysis, folder, *, progress=None):
     """Write every output file of a run into ``folder`` (see docs/outputs.md).
 
-    CSV text cells are neutralised for spreadsheets (:mod:`drift.safecsv`).
+    CSV text cells are neutralised for spreadsheets (:mod:`drift.output.tables`).
     """
     from drift.output.tables import write_csv
     from drift.report import write_report
@@ -163,7 +163,7 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 
 
 def check(data, config: Config | None = None):
-    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.datacheck.DataCheck`."""
+    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.intake.dry_run.DataCheck`."""
     from drift.intake.dry_run import check_data
     check_regular(_as_list(data))
     check_distinct(_as_list(data))
@@ -189,7 +189,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     progress : callable or drift.progress.Stages, optional
         Receives a :class:`drift.progress.StageEvent` as each stage starts and ends.
     self_check : int
-        Simulations of leagues like this one to rerun (:func:`drift.selfcheck.self_check`);
+        Simulations of leagues like this one to rerun (:func:`drift.sim.selfcheck.self_check`);
         0 (default) runs none. Each costs about one fit.
 
     Everything that can be checked is checked before fitting: the output folder (writable,

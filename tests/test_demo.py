@@ -12,7 +12,7 @@ def test_committed_files_are_what_the_generator_writes(tmp_path):
     write_league(tmp_path)
     for committed in sorted(DEMO.glob("*.csv")) + [DEMO / "truth" / "truth.csv"]:
         fresh = tmp_path / committed.relative_to(DEMO)
-        assert fresh.read_bytes() == committed.read_bytes(), f"{committed.name}: rerun python -m drift.demo demo_seasons"
+        assert fresh.read_bytes() == committed.read_bytes(), f"{committed.name}: rerun python -m drift.sim.demo demo_seasons"
 
 
 def test_size_of_the_league(demo_prepared):

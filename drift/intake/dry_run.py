@@ -18,7 +18,7 @@ class DataCheck:
 
     ``prepared``: the :class:`~drift.api.Prepared` data (None when intake refused it);
     ``columns``: one row per export column and reading (see
-    :func:`drift.intake_report.column_summary`); ``seasons``: per season the files,
+    :func:`drift.intake._column_table.column_summary`); ``seasons``: per season the files,
     rows, player-seasons, kept and excluded; ``excluded_by_reason``: counts;
     ``warnings``: every warning raised; ``problems``: why a run would not work
     (empty when it would).

@@ -73,7 +73,7 @@ class IntakePolicy(SettingsPart):
 
 
 def _check_intake_rules(policy):
-    """Validate the column-reading rules of [intake] (see drift.columns, drift.units)."""
+    """Validate the column-reading rules of [intake] (see drift.intake._columns, drift.intake._units)."""
     from drift.intake._columns import parse_read_rule, understand_columns
     from drift.intake._units import UNIT_WORDS
 

@@ -1,9 +1,9 @@
 """Intake: read season tables into one tidy table of player-season-team rows.
 
 Each file is read by :mod:`drift.readers` (CSV shape checks, Excel sheets and
-header rows), each column name is understood by :mod:`drift.columns`, each
+header rows), each column name is understood by :mod:`drift.intake._columns`, each
 column's cells are parsed once by :mod:`drift.cells`, and units are checked by
-:mod:`drift.units`. Nothing is dropped or converted without a line saying so in
+:mod:`drift.intake._units`. Nothing is dropped or converted without a line saying so in
 :attr:`RawSeasons.notes`, and every column's reading is in :attr:`RawSeasons.columns`.
 
 Stage output (:class:`RawSeasons`): one row per row of the input files with
@@ -44,7 +44,7 @@ class IntakeReading:
     sources: object
 
     def summary(self):
-        """One row per export column and reading (:func:`drift.intake_report.column_summary`)."""
+        """One row per export column and reading (:func:`drift.intake._column_table.column_summary`)."""
         from drift.intake._column_table import column_summary
 
         return column_summary(self.columns)

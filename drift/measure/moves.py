@@ -3,7 +3,7 @@
 For a pair of placements (two seasons, or the stints either side of a trade):
 
 * ``distance`` is the Euclidean length of the move in component space;
-* its null distribution comes from the noise model (:mod:`drift.noise`): the
+* its null distribution comes from the noise model (:mod:`drift.model.noise`): the
   sampling noise of both placements at their sample sizes plus the typical
   true yearly change of a returning player, carried into component space and
   calibrated on the pool's returning players. The squared Mahalanobis length

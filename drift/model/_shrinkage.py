@@ -1,7 +1,7 @@
 """Processing of raw feature values: empirical-Bayes shrinkage toward the pool mean.
 
 A pure function of the values, their samples and the pool's fitted noise table
-(:func:`drift.noise.fit_noise`); the estimator and the move statistics share it,
+(:func:`drift.model.noise.fit_noise`); the estimator and the move statistics share it,
 so a fitted and a loaded model process data identically.
 """
 
@@ -40,7 +40,7 @@ def process(values, exposure, base, noise, families, *, shrink: bool):
     values : array of shape (n, p)
         Raw feature values (NaN = no value).
     exposure : array of shape (n, p)
-        Sample behind each value (:func:`drift.features.exposure_matrix`); 0 = none.
+        Sample behind each value (:func:`drift.intake.features.exposure_matrix`); 0 = none.
     base : array of shape (n,)
         Each row's sample, used by the move calibration.
     noise : DataFrame indexed by feature

@@ -20,7 +20,7 @@ Roles (K-means on the pool's component scores), for k in 2..max_roles:
   by the Hungarian algorithm, and take each role's mean Jaccard overlap.
 
 The default decision (``method="gap"``, chosen on the simulated-league family of
-:mod:`drift.simulate` by ``benchmarks/role_count.py``): the gap statistic's
+:mod:`drift.sim.family` by ``benchmarks/role_count.py``): the gap statistic's
 one-standard-error rule, median over three sets of reference draws. Silhouette and
 Calinski-Harabasz favour the coarse guards/wings/bigs split when roles blend, so they
 are reported, not used. A k whose least stable role is below 0.6 is marked

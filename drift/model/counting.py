@@ -1,6 +1,6 @@
 """Only the work the settings need, bounded whatever the pool size.
 
-The component and role-count rules of :mod:`drift.selection` are called from
+The component and role-count rules of :mod:`drift.model.count_rules` are called from
 here, not directly by the model, so that:
 
 * a fixed component count (or fraction) skips parallel analysis: the table of
@@ -65,7 +65,7 @@ def select_components(z, rule, *, variance_threshold: float, seed: int,
     Returns
     -------
     n_components : int
-    diagnostics : DataFrame (columns of :func:`drift.selection.choose_components`)
+    diagnostics : DataFrame (columns of :func:`drift.model.count_rules.choose_components`)
     """
     import numpy as np
     import pandas as pd
@@ -125,7 +125,7 @@ def select_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
 
     Returns
     -------
-    drift.selection.RoleChoice
+    drift.model.count_rules.RoleChoice
     """
     import numpy as np
 

@@ -47,7 +47,7 @@ class RoleModel(FittingSteps, FileMethods):
     variance_threshold : float
         Used by the ``"variance"`` rule.
     roles : "auto" or int
-        Number of roles (>= 2), or ``"auto"`` to choose it (see :mod:`drift.selection`).
+        Number of roles (>= 2), or ``"auto"`` to choose it (see :mod:`drift.model.count_rules`).
     max_roles : int
         Largest k tried by ``"auto"``.
     noise_policy : {"shrink", "weight", "shrink+weight", "none"}
@@ -68,7 +68,7 @@ class RoleModel(FittingSteps, FileMethods):
     families_ : tuple of str, length p
     intake_ : IntakePolicy
         Filters and total marker the pool went through.
-    noise_ : DataFrame, one row per feature (see :func:`drift.noise.fit_noise`)
+    noise_ : DataFrame, one row per feature (see :func:`drift.model.noise.fit_noise`)
     weights_ : ndarray of shape (p,)
     scaler_mean_, scaler_scale_ : ndarray of shape (p,)
     components_ : ndarray of shape (q, p)
@@ -141,7 +141,7 @@ class RoleModel(FittingSteps, FileMethods):
         pool : DataFrame
             One row per player-season: ``player_id``, ``season``, ``minutes``
             (and ``possessions`` if known) and the features; missing play-type
-            shares already set to 0 (:func:`drift.features.fill_unused_shares`).
+            shares already set to 0 (:func:`drift.intake.features.fill_unused_shares`).
         features : sequence of str
             Feature columns in order.
         intake : IntakePolicy, optional
@@ -270,7 +270,7 @@ class RoleModel(FittingSteps, FileMethods):
 
     @fitted
     def place(self, table):
-        """Place season rows: see :func:`drift.place.place`."""
+        """Place season rows: see :func:`drift.model._placement.place`."""
         from drift.model._placement import place
 
         return place(self, table)

@@ -156,7 +156,7 @@ def fit_noise(table, spec, exposure):
         Pool season rows: ``player_id``, ``season`` and the features.
     spec : FeatureSpec
     exposure : array of shape (n_rows, n_features)
-        From :func:`drift.features.exposure_matrix`.
+        From :func:`drift.intake.features.exposure_matrix`.
 
     Returns
     -------

@@ -6,7 +6,7 @@ scores over the seasons so far (each season weighted by its minutes times
 ``decay`` per season back, so the latest season counts most), together with his
 latest role and the decayed minutes behind the summary.
 
-* **Role probabilities** come from a conditional logit (:mod:`drift.choice`):
+* **Role probabilities** come from a conditional logit (:mod:`drift.outlook._logit`):
   each role's utility for a player is a weighted sum of features of the player
   *and* that role, with weights shared by all roles: he stays (the role is his
   latest); how close his history summary and his latest season sit to the role's
@@ -23,7 +23,7 @@ latest role and the decayed minutes behind the summary.
   (regression to the mean is stronger for short histories); the root-mean-square
   residual distance in three sample-size bins is the position's spread.
 
-:func:`drift.backtest.backtest` refits all of it on the seasons before each season and scores it
+:func:`drift.outlook.backtest.backtest` refits all of it on the seasons before each season and scores it
 against what happened, beside the naive forecast "same role as last season"
 with its own best constant confidence (see docs/cli.md, "Preseason outlook").
 """
@@ -123,7 +123,7 @@ class RoleOutlook:
         self.min_pairs = min_pairs
 
     def _design(self, h):
-        """Features (n, k, m) of each history row and role (see :mod:`drift.choice`).
+        """Features (n, k, m) of each history row and role (see :mod:`drift.outlook._logit`).
 
         Shared: stays (the role is his latest), closeness of the history and of the
         latest season to the role (minus log(1 + d^2 / 2 s^2), s^2 the within-role
@@ -159,7 +159,7 @@ class RoleOutlook:
         Parameters
         ----------
         placements : DataFrame
-            As written by :func:`drift.place.place` (all seasons), or a
+            As written by :func:`drift.model._placement.place` (all seasons), or a
             :func:`history_table` of them.
         model : RoleModel
             The fitted model that placed them (role ids, centres, within-role variance).

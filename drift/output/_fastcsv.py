@@ -5,7 +5,7 @@ cell through the csv module; here each column is formatted once as a list of
 strings (Python's ``repr`` gives the same shortest text as numpy) and rows are
 joined in blocks, so memory stays bounded. Columns of other dtypes, a text cell
 with a carriage return, or a single-column table go to pandas unchanged: the
-output is then pandas' own. Spreadsheet safety is :mod:`drift.safecsv`'s job;
+output is then pandas' own. Spreadsheet safety is :mod:`drift.output.tables`'s job;
 this module only formats.
 """
 

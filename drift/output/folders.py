@@ -110,7 +110,7 @@ def check_output_folder(out, *, kind, inputs=(), names=()) -> dict:
     ----------
     out : path
     kind : str
-        The kind of output (a key of :data:`drift.ownership.KINDS`); a folder another kind
+        The kind of output (a key of :data:`drift.output._marker.KINDS`); a folder another kind
         of output owns is refused.
     inputs : paths that the output must not be, contain or lie inside
     names : file names the run may write (a user's file of one of these names is refused)

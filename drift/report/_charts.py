@@ -155,7 +155,7 @@ def drift_chart(drift, model, *, per_role=2) -> str:
     """Per role whose centre moved beyond noise, its features that did, with their noise bands.
 
     Values are the season centre minus the reference centre in pool SDs; the shaded band is
-    the season centre's noise (``band_z`` standard errors, see :mod:`drift.roledrift`). Returns
+    the season centre's noise (``band_z`` standard errors, see :mod:`drift.measure.role_drift`). Returns
     "" when no role moved beyond noise.
     """
     import numpy as np

@@ -31,7 +31,7 @@ class Basis:
     Attributes
     ----------
     names, colours : dict
-        Role id -> role name; role id -> hex colour (:data:`drift.charts.ROLE_COLOURS`).
+        Role id -> role name; role id -> hex colour (:data:`drift.report._charts.ROLE_COLOURS`).
     seasons : list of str
         Every placed season, in order; ``season_index`` maps each to its position.
     season_index : dict
@@ -198,7 +198,7 @@ class ReportContext:
         The match with a previous model's roles.
     self_check : str
         With ``--self-check N``: how often roles and role changes were recovered on leagues
-        simulated like this one (:class:`drift.selfcheck.SelfCheck`), in two sentences; "" otherwise.
+        simulated like this one (:class:`drift.sim.selfcheck.SelfCheck`), in two sentences; "" otherwise.
     noise_note : str
         Calibration of the noise model, in a sentence.
     outlook : list of dict

@@ -1,11 +1,11 @@
 """Role profiles of the simulated family, and the simulated player who carries one.
 
-:mod:`drift.simulate` draws leagues; this module holds what a league's roles are
+:mod:`drift.sim.family` draws leagues; this module holds what a league's roles are
 made of: the library of twelve invented playstyle profiles (:data:`PROFILES`),
 how a league picks and perturbs some of them (:func:`league_profiles`), which
 other role a blended player leans towards (:func:`nearest_other`), and the
 player whose true style is drawn around his role (:class:`SimPlayer`, shaped like
-the demo's players so :func:`drift.demo._observe` can observe him).
+the demo's players so :func:`drift.sim.demo._observe` can observe him).
 
 Everything is invented: the profiles are numbers written for this code.
 """
@@ -62,7 +62,7 @@ def nearest_other(profiles):
 
 
 class SimPlayer:
-    """A player's truth, shaped like the demo's players so :func:`drift.demo._observe` can draw from it."""
+    """A player's truth, shaped like the demo's players so :func:`drift.sim.demo._observe` can draw from it."""
 
     def __init__(self, pid, name, role, rng, profiles, partner, blend_weight, spread):
         self.pid, self.name, self.profiles, self.spread = pid, name, profiles, spread

@@ -8,7 +8,7 @@ shrinks with sample size: play-type shares are multinomial over the
 player's finishing possessions, points per possession average over the
 possessions of that play type, rates and shooting wobble with 1/sqrt(sample).
 
-``python -m drift.demo demo_seasons`` rewrites the committed demo files.
+``python -m drift.sim.demo demo_seasons`` rewrites the committed demo files.
 """
 
 from __future__ import annotations

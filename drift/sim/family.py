@@ -1,6 +1,6 @@
 """A family of simulated leagues with known truth, shared by tests and benchmarks.
 
-The demo league (:mod:`drift.demo`) is one league with seven roles. Rules that
+The demo league (:mod:`drift.sim.demo`) is one league with seven roles. Rules that
 only ever meet it get tuned to it. This module draws leagues that differ in
 everything a rule could depend on: the number of latent roles (4 to 12, taken
 from a library of plausible playstyle profiles and perturbed per league), how
@@ -11,21 +11,21 @@ its truth beside the data: each player-season's true role, the role it blends
 with and how much, and whether the role really changed since last season.
 
 Everything is invented: profiles, teams, names and numbers come from this code.
-Observed stats come from :func:`drift.demo._observe` (multinomial play-type
+Observed stats come from :func:`drift.sim.demo._observe` (multinomial play-type
 shares over finishing possessions, points per possession averaged over the
 possessions of each play type, rates and shooting with noise shrinking as
 1/sqrt(sample)), so the family and the demo share one observation model.
 
 Use::
 
-    from drift.simulate import family, simulate_league
+    from drift.sim.family import family, simulate_league
     for spec in family(60):   # the family used to choose defaults
         simulate_league(spec).write("some/folder")   # season CSVs + truth/truth.csv
 
 ``family(n, start=1000)`` gives leagues that were never used to choose anything
 (the held-out set of ``benchmarks/role_count.py``).
 
-The role profiles and the simulated player live in :mod:`drift.sim_roles`
+The role profiles and the simulated player live in :mod:`drift.sim._roles`
 (``PROFILES`` is re-exported here); this module draws the league around them.
 """
 
