@@ -8,9 +8,18 @@ Out
     drift run against that truth. Nothing here describes a real player or team.
 """
 
-from drift.sim.demo import DemoLeague, generate_league, write_league
-from drift.sim.family import LeagueSpec, SimLeague, family, recovery, simulate_league
-from drift.sim.selfcheck import SelfCheck, self_check
-
 __all__ = ["DemoLeague", "generate_league", "write_league", "LeagueSpec", "SimLeague", "family",
            "simulate_league", "recovery", "SelfCheck", "self_check"]
+
+_WHERE = {"DemoLeague": "demo", "generate_league": "demo", "write_league": "demo", "LeagueSpec": "family",
+          "SimLeague": "family", "family": "family", "simulate_league": "family", "recovery": "family",
+          "SelfCheck": "selfcheck", "self_check": "selfcheck"}
+
+
+def __getattr__(name):
+    # loaded on first use, so `python -m drift.sim.demo` runs the module once, not twice
+    import importlib
+
+    if name in _WHERE:
+        return getattr(importlib.import_module(f"drift.sim.{_WHERE[name]}"), name)
+    raise AttributeError(f"module 'drift.sim' has no attribute {name!r}")
