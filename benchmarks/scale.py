@@ -186,7 +186,8 @@ def measure(rows, fmt, *, auto, place, seed=0):
         league = make_league(rows, seed=seed)
         write_league(league, tmp / "data", fmt)
         del league
-        result = {"rows_generated": rows, "format": fmt, "generate_s": time.perf_counter() - mark}
+        result = {"rows_generated": rows, "format": fmt, "generate_s": time.perf_counter() - mark,
+                  "load_before": os.getloadavg()[0]}
         (tmp / "b").mkdir()
         (tmp / "d").mkdir()
         result["bare"] = _spawn("bare", tmp / "data", fmt, tmp / "b")
@@ -198,7 +199,12 @@ def measure(rows, fmt, *, auto, place, seed=0):
             model = tmp / "d" / "run" / "model.json"
             result["place"] = _spawn("place", tmp / "data", fmt, tmp / "d", [str(model)])
             result["bare_place"] = _spawn("bare-place", tmp / "data", fmt, tmp / "d", [str(model)])
+        result["load_after"] = os.getloadavg()[0]
     return result
+
+
+#: the core stages of a run (read, fit, place, moves), compared with the whole bare script
+CORE = ("read", "combine stints", "fit reference model", "place", "moves")
 
 
 def _ratio(r, key, what):
@@ -235,7 +241,26 @@ def markdown(results) -> str:
         cells = [f"{r['drift']['cpu'].get(name, 0):.2f} ({r['drift']['stages'].get(name, 0):.2f})"
                  for r in results]
         lines.append(f"| {name} | " + " | ".join(cells) + " |")
+    lines += ["", "Core stages (" + ", ".join(CORE) + ") against the whole bare script, wall: "
+              + "; ".join(f"{r['drift']['rows']:,}: {_core(r):.2f}x" for r in results) + ".",
+              "", "Growth: time of each stage at this size over the previous size, with the growth of the rows "
+              "(linear work grows as the rows do):", ""]
+    for prev, r in zip(results, results[1:]):
+        grow_rows = r["drift"]["rows"] / max(prev["drift"]["rows"], 1)
+        worst = max(((r["drift"]["stages"][s] / max(prev["drift"]["stages"].get(s, 0), 0.05), s)
+                     for s in r["drift"]["stages"] if s not in ("total", "import")), default=(0, "-"))
+        lines.append(f"- {prev['drift']['rows']:,} -> {r['drift']['rows']:,} rows (x{grow_rows:.1f}): whole run "
+                     f"x{r['drift']['stages']['total'] / prev['drift']['stages']['total']:.1f}; steepest stage "
+                     f"{worst[1]} x{worst[0]:.1f}")
+    loads = ", ".join(f"{r['load_before']:.2f}/{r['load_after']:.2f}" for r in results if "load_before" in r)
+    lines += ["", f"1-minute load average before/after each size: {loads} (a quiet 2-core machine reads "
+              "below 1 before a size starts; the benchmark itself adds about 1)."]
     return "\n".join(lines) + "\n"
+
+
+def _core(r):
+    stages = r["drift"]["stages"]
+    return sum(stages.get(s, 0) for s in CORE) / r["bare"]["stages"]["total"]
 
 
 def help_seconds(repeats=5):
