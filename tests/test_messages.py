@@ -128,7 +128,7 @@ def test_argument_errors_are_one_line(capsys):
         main(["run", "data", "--out", "o", "--roles", "1"])
     assert stop.value.code == 2
     err = capsys.readouterr().err
-    assert err.count("\n") == 1 and err.startswith("drift: error: ") and "roles must be >= 2" in err
+    assert err.count("\n") == 1 and err.startswith("drift: error: ") and "roles=1 must be 'auto' or a whole number >= 2" in err
 
 
 def test_debug_flag_is_accepted_before_and_after_the_command():
