@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 
 import pandas as pd
-from conftest import DEMO, ROOT
+from conftest import DEMO, ROOT, borrowed_labels
 
 from drift.cli import build_parser
 
@@ -60,3 +60,14 @@ def test_readme_is_a_landing_page_and_its_links_resolve():
     for target in re.findall(r"\]\(([^)#:]+)(?:#[^)]*)?\)", DOCS):
         if not target.startswith("http"):
             assert (ROOT / target).exists() or (ROOT / "docs" / target).exists(), target
+
+
+def test_no_published_role_label_in_anything_a_user_reads():
+    """Docs, the demo's README and the package itself (messages, templates) use drift's own role words."""
+    texts = {"docs": DOCS, "demo_seasons/README.md": (DEMO / "README.md").read_text(encoding="utf-8"),
+             "DEVELOPERS.md": (ROOT / "DEVELOPERS.md").read_text(encoding="utf-8")}
+    for path in sorted((ROOT / "drift").rglob("*")):
+        if path.suffix in (".py", ".html", ".js", ".css"):
+            texts[str(path.relative_to(ROOT))] = path.read_text(encoding="utf-8")
+    assert {where: borrowed_labels(text) for where, text in texts.items() if borrowed_labels(text)} == {}
+
