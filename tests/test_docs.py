@@ -71,3 +71,22 @@ def test_no_published_role_label_in_anything_a_user_reads():
             texts[str(path.relative_to(ROOT))] = path.read_text(encoding="utf-8")
     assert {where: borrowed_labels(text) for where, text in texts.items() if borrowed_labels(text)} == {}
 
+
+def test_docs_name_the_distribution():
+    """The index name differs from the command and the import package; README and docs say which is which."""
+    import tomllib
+    from importlib.metadata import PackageNotFoundError, version
+
+    import drift
+    from drift.constants import DISTRIBUTION
+
+    project = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))["project"]
+    # "drift" is taken on the public index by an unrelated project (pip index versions drift: 0.0.7)
+    assert project["name"] == DISTRIBUTION != "drift"
+    assert project["scripts"] == {"drift": "drift.cli:main"}  # the command keeps its name
+    assert f"`{DISTRIBUTION}`" in README and f"`{DISTRIBUTION}`" in DOCS.replace(README, "")
+    try:
+        installed = version(DISTRIBUTION)
+    except PackageNotFoundError:  # run from a checkout that was never installed
+        return
+    assert installed == drift.__version__  # one version: pyproject reads drift.__version__
