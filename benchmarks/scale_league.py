@@ -21,13 +21,13 @@ FEATURES = tuple(f"share_{t}" for t in PLAY_TYPES) + tuple(f"ppp_{t}" for t in P
 
 # invented role profiles: play-type weights, then rate and shooting means
 _SHARES = np.array([
-    [8, 30, 1, 2, 20, 14, 5, 6, 10, 1],    # lead handler
+    [8, 30, 1, 2, 20, 14, 5, 6, 10, 1],    # pick-and-roll lead guard
     [3, 6, 2, 1, 48, 12, 8, 12, 6, 1],     # spot-up wing
     [1, 1, 30, 8, 6, 10, 24, 1, 3, 16],    # rim-running big
-    [4, 2, 10, 38, 10, 6, 14, 1, 3, 12],   # post scorer
-    [14, 16, 1, 4, 22, 16, 6, 12, 8, 1],   # shot creator
-    [2, 4, 8, 6, 30, 18, 18, 4, 4, 6],     # connector
-    [2, 3, 14, 6, 30, 8, 14, 2, 4, 17],    # stretch big
+    [4, 2, 10, 38, 10, 6, 14, 1, 3, 12],   # post-up big
+    [14, 16, 1, 4, 22, 16, 6, 12, 8, 1],   # isolation and pick-and-roll scorer
+    [2, 4, 8, 6, 30, 18, 18, 4, 4, 6],     # spot-up and cutting forward
+    [2, 3, 14, 6, 30, 8, 14, 2, 4, 17],    # pick-and-pop big
 ], float)
 _OTHER = np.array([
     # usage ast orb drb tov stl blk | ts 3pa ft

@@ -143,14 +143,14 @@ def _progress(args):
 
 def build_parser() -> argparse.ArgumentParser:
     from drift import __version__
-    from drift.constants import NOISE_POLICIES
+    from drift.constants import DISTRIBUTION, NOISE_POLICIES
     from drift.placing import SEASON_GAMES
 
     _, model, moves = _defaults()
 
     parser = _Parser(
         prog="drift", description="Season-over-season role drift for basketball front offices.")
-    parser.add_argument("--version", action="version", version=f"drift {__version__}")
+    parser.add_argument("--version", action="version", version=f"drift {__version__} (package {DISTRIBUTION})")
     parser.add_argument("--debug", action="store_true", default=False,
                         help="show the traceback of an unexpected error")
     sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND",

@@ -7,9 +7,13 @@ bytes too).
 
 from __future__ import annotations
 
-__all__ = ["STABLE_JACCARD", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES",
+__all__ = ["DISTRIBUTION", "STABLE_JACCARD", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES",
            "COMPONENT_RULES", "role_id", "role_number", "INTAKE_RULES_TEXT", "MISSING_ACTIONS",
            "FILTER_REASONS", "reason_text"]
+
+#: drift's name on the package index (pyproject.toml's project name): "drift" there is an
+#: unrelated project; the command and the import package are still ``drift``
+DISTRIBUTION = "role-drift"
 
 #: a role reproduces on resamples when its mean bootstrap Jaccard overlap reaches this
 #: (common practice, no source: Hennig's 0.6 "pattern, not noise" reading of stability)

@@ -20,6 +20,20 @@ _THREADS = threadpool_limits(limits=1)
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "demo_seasons"
 
+#: role and position labels that existing rating services publish and drift must not reuse in its
+#: role names, the demo's archetypes, the simulated profiles or the docs: whole phrases, and
+#: ``combo`` as a word anywhere in a name (the list of issue 23)
+BORROWED_LABELS = ("primary ball handler", "slasher", "movement shooter", "stretch big", "perimeter stopper",
+                   "combo")
+
+
+def borrowed_labels(text: str) -> list:
+    """The :data:`BORROWED_LABELS` that ``text`` uses as words (case, hyphens, underscores and plurals ignored)."""
+    import re
+
+    plain = re.sub(r"[-_\s]+", " ", text.lower())
+    return [label for label in BORROWED_LABELS if re.search(rf"\b{label}s?\b", plain)]
+
 
 class _SharedFits:
     """Each distinct fit runs once per test run: ``RoleModel.fit`` memoised on its data and settings.

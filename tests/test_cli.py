@@ -175,8 +175,11 @@ def test_help_is_instant_and_imports_nothing_heavy():
 
 
 def test_python_dash_m_works():
+    import drift
+    from drift.constants import DISTRIBUTION
+
     out = subprocess.run([sys.executable, "-m", "drift", "--version"], capture_output=True, text=True)
-    assert out.returncode == 0 and out.stdout.startswith("drift ")
+    assert out.returncode == 0 and out.stdout.strip() == f"drift {drift.__version__} (package {DISTRIBUTION})"
 
 
 def test_demo_command_writes_a_league(tmp_path):

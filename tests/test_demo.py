@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import numpy as np
-from conftest import DEMO
+from conftest import DEMO, borrowed_labels
 
 from drift.sim.demo import ARCHETYPES, PLAY_TYPES, generate_league, write_league
 
@@ -55,6 +55,13 @@ def test_stories_are_present(demo_truth, demo_prepared):
     last = set(demo_truth.loc[demo_truth["season"] == seasons[-1], "player_id"])
     assert last - first and first - last  # rookies arrive, players depart
     assert set(demo_truth["true_role"]) == set(ARCHETYPES)
+
+
+def test_archetypes_reuse_no_published_role_label():
+    """The demo's true roles are our own fiction: no rating service's label, in code or in the truth files."""
+    assert {key: borrowed_labels(key) for key in ARCHETYPES if borrowed_labels(key)} == {}
+    for text in ((DEMO / "truth" / "archetypes.csv").read_text(), (DEMO / "README.md").read_text()):
+        assert borrowed_labels(text) == []
 
 
 def test_names_are_invented_and_unique():

@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+from conftest import borrowed_labels
+
 from drift.model.describe import NAME_MIN_SCORE, ROLE_VOCABULARY, describe_role, name_roles
 
-#: the demo league's true archetypes (drift/demo.py) and what a coach would call them
-DEMO_NAMES = {"lead_creator": "primary ball handler", "combo_guard": "combo guard", "spot_up_wing": "spot-up wing",
-              "slasher": "slasher", "rim_runner": "rim-running big", "post_hub": "post-up big",
-              "stretch_big": "stretch big"}
+#: the demo league's true archetypes (drift/sim/demo.py) and what a coach would call them
+DEMO_NAMES = {"lead_creator": "pick-and-roll playmaker", "handoff_guard": "handoff guard",
+              "spot_up_wing": "spot-up wing", "transition_wing": "transition attacker",
+              "rim_runner": "rim-running big", "post_hub": "post-up big", "pick_and_pop_big": "pick-and-pop big"}
 
 
 def test_demo_roles_get_the_names_of_their_true_archetypes(demo_model, demo_analysis, demo_truth):
@@ -38,6 +40,16 @@ def test_unknown_features_fall_back_to_distinct_feature_names():
     a = {"hustle_pct": 2.0, "deflection_rate": 1.0}
     names = name_roles([a, dict(a)])
     assert names[0] == "high hustle pct, high deflection rate" and names[1] != names[0]
+
+
+def test_vocabulary_reuses_no_published_role_label():
+    # the check itself catches each label, in any spelling (the names this vocabulary replaced)
+    replaced = ["primary ball handler", "Combo guard", "slasher", "movement shooter", "stretch_big",
+                "Perimeter-stopper", "stretch bigs"]
+    assert all(borrowed_labels(name) for name in replaced)
+    assert not borrowed_labels("combination lineup, combustion")  # only the whole word
+    assert {name: borrowed_labels(name) for name in ROLE_VOCABULARY if borrowed_labels(name)} == {}
+    assert len({name.lower() for name in ROLE_VOCABULARY}) == len(ROLE_VOCABULARY)
 
 
 def test_every_vocabulary_name_can_be_reached():

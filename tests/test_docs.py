@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 
 import pandas as pd
-from conftest import DEMO, ROOT
+from conftest import DEMO, ROOT, borrowed_labels
 
 from drift.cli import build_parser
 
@@ -60,3 +60,33 @@ def test_readme_is_a_landing_page_and_its_links_resolve():
     for target in re.findall(r"\]\(([^)#:]+)(?:#[^)]*)?\)", DOCS):
         if not target.startswith("http"):
             assert (ROOT / target).exists() or (ROOT / "docs" / target).exists(), target
+
+
+def test_no_published_role_label_in_anything_a_user_reads():
+    """Docs, the demo's README and the package itself (messages, templates) use drift's own role words."""
+    texts = {"docs": DOCS, "demo_seasons/README.md": (DEMO / "README.md").read_text(encoding="utf-8"),
+             "DEVELOPERS.md": (ROOT / "DEVELOPERS.md").read_text(encoding="utf-8")}
+    for path in sorted((ROOT / "drift").rglob("*")):
+        if path.suffix in (".py", ".html", ".js", ".css"):
+            texts[str(path.relative_to(ROOT))] = path.read_text(encoding="utf-8")
+    assert {where: borrowed_labels(text) for where, text in texts.items() if borrowed_labels(text)} == {}
+
+
+def test_docs_name_the_distribution():
+    """The index name differs from the command and the import package; README and docs say which is which."""
+    import tomllib
+    from importlib.metadata import PackageNotFoundError, version
+
+    import drift
+    from drift.constants import DISTRIBUTION
+
+    project = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))["project"]
+    # "drift" is taken on the public index by an unrelated project (pip index versions drift: 0.0.7)
+    assert project["name"] == DISTRIBUTION != "drift"
+    assert project["scripts"] == {"drift": "drift.cli:main"}  # the command keeps its name
+    assert f"`{DISTRIBUTION}`" in README and f"`{DISTRIBUTION}`" in DOCS.replace(README, "")
+    try:
+        installed = version(DISTRIBUTION)
+    except PackageNotFoundError:  # run from a checkout that was never installed
+        return
+    assert installed == drift.__version__  # one version: pyproject reads drift.__version__

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 import pytest
+from conftest import borrowed_labels
 
 from drift.sim.demo import PLAY_TYPES
 from drift.sim.family import (
@@ -31,6 +32,10 @@ def test_family_is_deterministic_and_varied():
     assert any(not s.possessions for s in a)
     held = family(5, start=HELD_OUT_START)
     assert not set(s.seed for s in held) & set(s.seed for s in a)
+
+
+def test_profiles_reuse_no_published_role_label():
+    assert {key: borrowed_labels(key) for key in PROFILES if borrowed_labels(key)} == {}
 
 
 def test_league_rows_and_truth_agree():

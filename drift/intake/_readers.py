@@ -18,6 +18,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from drift.constants import DISTRIBUTION
 from drift.errors import InputError
 from drift.intake._rawtables import MAX_HEADER_ROW, RawTable, normalise_season, refuse_duplicates, season_label
 
@@ -96,7 +97,8 @@ def read_tables(path: Path, *, text_columns, recognise, required=(), sheet=None)
         try:
             frame = pd.read_parquet(path)
         except ImportError:
-            raise InputError("reading Parquet needs pyarrow: pip install 'drift[parquet]'", file=path) from None
+            raise InputError(f"reading Parquet needs pyarrow: pip install pyarrow (or '{DISTRIBUTION}[parquet]')",
+                             file=path) from None
         refuse_duplicates(frame.columns, path)
         frame.columns = [str(c).strip() for c in frame.columns]
         return [RawTable(frame, str(path), 2, *season_label(path.stem))]

@@ -1,6 +1,6 @@
 """Readable role names and descriptions from a role's most distinctive features.
 
-A role's *name* is what a coach would call it ("pick-and-roll ball handler",
+A role's *name* is what a coach would call it ("pick-and-roll playmaker",
 "rim-running big", "spot-up wing") when its profile supports one of the
 :data:`ROLE_VOCABULARY` entries; otherwise it is its two strongest features
 ("cutting heavy, high steal rate"). Its *description* always lists the three
@@ -12,23 +12,27 @@ from __future__ import annotations
 
 __all__ = ["feature_label", "describe_role", "name_role", "name_roles", "ROLE_VOCABULARY", "NAME_MIN_SCORE"]
 
-#: role name -> (feature, weight) pairs in pool SDs; the first feature is the defining one
+#: role name -> (feature, weight) pairs in pool SDs; the first feature is the defining one.
+#: Names are drift's own: the play type or statistic the role leans on most, then where it plays
+#: (guard, wing, big) or what it does, so a name reads as its recipe. They deliberately copy no
+#: published archetype or position system (tests/test_describe.py checks the ones we replaced).
 ROLE_VOCABULARY = {
-    "primary ball handler": (("share_pnr_handler", 1.0), ("usage_pct", 1.0), ("ast_pct", 1.0)),
-    "combo guard": (("share_pnr_handler", 0.5), ("share_handoff", 1.0), ("share_spot_up", 0.5),
-                    ("ast_pct", 0.5), ("drb_pct", -0.5)),
+    "pick-and-roll playmaker": (("share_pnr_handler", 1.0), ("usage_pct", 1.0), ("ast_pct", 1.0)),
+    "handoff guard": (("share_pnr_handler", 0.5), ("share_handoff", 1.0), ("share_spot_up", 0.5),
+                      ("ast_pct", 0.5), ("drb_pct", -0.5)),
     "isolation scorer": (("share_isolation", 1.0), ("usage_pct", 0.7), ("share_pnr_handler", -0.3)),
     "spot-up wing": (("share_spot_up", 1.0), ("three_pa_rate", 1.0), ("usage_pct", -0.5), ("drb_pct", -0.5)),
-    "stretch big": (("drb_pct", 1.0), ("share_spot_up", 1.0), ("three_pa_rate", 1.0), ("share_roll_man", 0.5),
-                    ("share_transition", -0.5)),
+    "pick-and-pop big": (("drb_pct", 1.0), ("share_spot_up", 1.0), ("three_pa_rate", 1.0), ("share_roll_man", 0.5),
+                         ("share_transition", -0.5)),
     "rim-running big": (("share_roll_man", 1.0), ("blk_pct", 0.5), ("orb_pct", 0.5), ("three_pa_rate", -0.5)),
     "post-up big": (("share_post_up", 1.0), ("drb_pct", 0.5), ("usage_pct", 0.3)),
-    "slasher": (("share_transition", 1.0), ("share_cut", 0.5), ("ft_rate", 0.5), ("share_isolation", 0.5)),
-    "movement shooter": (("share_off_screen", 1.0), ("share_handoff", 0.5), ("three_pa_rate", 0.5)),
-    "energy big": (("share_putback", 1.0), ("orb_pct", 1.0), ("share_cut", 0.5)),
-    "cutter": (("share_cut", 1.0), ("ts_pct", 0.5)),
-    "rim protector": (("blk_pct", 1.0), ("drb_pct", 0.5)),
-    "perimeter stopper": (("stl_pct", 1.0), ("usage_pct", -0.5), ("share_spot_up", 0.3)),
+    "transition attacker": (("share_transition", 1.0), ("share_cut", 0.5), ("ft_rate", 0.5),
+                            ("share_isolation", 0.5)),
+    "screen-running shooter": (("share_off_screen", 1.0), ("share_handoff", 0.5), ("three_pa_rate", 0.5)),
+    "putback big": (("share_putback", 1.0), ("orb_pct", 1.0), ("share_cut", 0.5)),
+    "off-ball cutter": (("share_cut", 1.0), ("ts_pct", 0.5)),
+    "shot-blocking big": (("blk_pct", 1.0), ("drb_pct", 0.5)),
+    "ball-hawking wing": (("stl_pct", 1.0), ("usage_pct", -0.5), ("share_spot_up", 0.3)),
 }
 #: a role takes a vocabulary name only when its weighted profile is this far above the pool (SDs);
 #: half an SD on average over the defining features (common practice, no source; checked on the

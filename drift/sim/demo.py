@@ -26,33 +26,33 @@ SHOOTING = ("ts_pct", "three_pa_rate", "ft_rate")
 ARCHETYPES = {
     "lead_creator":     ((.18, .40, .00, .03, .10, .12, .03, .04, .08, .02),
                          (29, 33, 2.0, 11, 12.5, 1.6, 0.6), (.575, .36, .32)),
-    "combo_guard":      ((.09, .22, .00, .02, .27, .15, .05, .08, .10, .02),
+    "handoff_guard":    ((.09, .22, .00, .02, .27, .15, .05, .08, .10, .02),
                          (21, 20, 2.2, 12, 11.5, 1.7, 0.7), (.565, .44, .22)),
     "spot_up_wing":     ((.03, .03, .00, .02, .50, .16, .10, .08, .06, .02),
                          (15, 8, 2.5, 12, 9.0, 1.4, 0.8), (.580, .64, .13)),
-    "slasher":          ((.15, .07, .01, .04, .16, .27, .19, .03, .05, .03),
+    "transition_wing":  ((.15, .07, .01, .04, .16, .27, .19, .03, .05, .03),
                          (21, 12, 4.8, 13, 11.5, 1.8, 1.0), (.560, .26, .40)),
     "rim_runner":       ((.00, .00, .37, .07, .03, .10, .23, .00, .02, .18),
                          (15, 7, 12.0, 22, 13.0, 1.1, 3.8), (.645, .02, .42)),
     "post_hub":         ((.03, .00, .13, .38, .08, .08, .12, .00, .04, .14),
                          (24, 14, 9.5, 23, 12.5, 1.0, 2.2), (.555, .08, .34)),
-    "stretch_big":      ((.02, .00, .16, .11, .37, .08, .10, .03, .06, .07),
+    "pick_and_pop_big": ((.02, .00, .16, .11, .37, .08, .10, .03, .06, .07),
                          (17, 10, 6.0, 20, 10.0, 1.0, 1.8), (.585, .50, .20)),
 }
 _BASE_PPP = (0.90, 0.88, 1.15, 0.92, 1.00, 1.12, 1.25, 0.98, 0.92, 1.10)
 #: plausible real changes of role (a summer of development, a new coach, a trade)
 _TRANSITIONS = {
-    "spot_up_wing": ("combo_guard", "slasher"),
-    "combo_guard": ("lead_creator", "spot_up_wing"),
-    "lead_creator": ("combo_guard",),
-    "slasher": ("spot_up_wing", "combo_guard"),
-    "rim_runner": ("post_hub", "stretch_big"),
-    "post_hub": ("stretch_big", "rim_runner"),
-    "stretch_big": ("post_hub", "spot_up_wing"),
+    "spot_up_wing": ("handoff_guard", "transition_wing"),
+    "handoff_guard": ("lead_creator", "spot_up_wing"),
+    "lead_creator": ("handoff_guard",),
+    "transition_wing": ("spot_up_wing", "handoff_guard"),
+    "rim_runner": ("post_hub", "pick_and_pop_big"),
+    "post_hub": ("pick_and_pop_big", "rim_runner"),
+    "pick_and_pop_big": ("post_hub", "spot_up_wing"),
 }
-_NEIGHBOUR = {"lead_creator": "combo_guard", "combo_guard": "spot_up_wing",
-              "spot_up_wing": "slasher", "slasher": "combo_guard", "rim_runner": "post_hub",
-              "post_hub": "stretch_big", "stretch_big": "spot_up_wing"}
+_NEIGHBOUR = {"lead_creator": "handoff_guard", "handoff_guard": "spot_up_wing",
+              "spot_up_wing": "transition_wing", "transition_wing": "handoff_guard",
+              "rim_runner": "post_hub", "post_hub": "pick_and_pop_big", "pick_and_pop_big": "spot_up_wing"}
 _RATE_NOISE = (1.4, 2.4, 0.9, 1.4, 1.4, 0.30, 0.35)  # sd at 1,500 minutes
 
 _TEAMS = (
