@@ -31,6 +31,10 @@ A config file has up to six tables; every key is optional::
     [intake.rename]              # drift's feature name -> yours
     usage_pct = "usg"
 
+    [intake.csv]                 # text files, when drift's detection is wrong
+    separator = ";"              # ",", ";", "tab" or "|"
+    encoding = "windows-1252"    # any encoding Python knows
+
     [filters]
     min_games = 20
     min_minutes_per_game = 10.0
@@ -121,7 +125,7 @@ class Config:
 
 _SECTIONS = {
     "columns": None,
-    "intake": {"total_marker", "features", "exclude", "sheet", "read", "units", "rename", "play_types"},
+    "intake": {"total_marker", "features", "exclude", "sheet", "read", "units", "rename", "play_types", "csv"},
     "filters": {"min_games", "min_minutes_per_game", "min_stint_games"},
     "model": {"reference", "components", "variance_threshold", "roles", "max_roles",
               "noise_policy", "seed"},
@@ -142,7 +146,8 @@ def load_config(path=None) -> Config:
         return Config()
     path = Path(path)
     try:
-        raw = tomllib.loads(path.read_text(encoding="utf-8"))
+        # utf-8-sig: a config saved by an editor that writes a byte-order mark reads like any other
+        raw = tomllib.loads(path.read_text(encoding="utf-8-sig"))
     except FileNotFoundError:
         raise ConfigError(f"{path}: config file not found") from None
     except IsADirectoryError:
@@ -164,7 +169,7 @@ def load_config(path=None) -> Config:
             if key not in allowed:
                 raise ConfigError(
                     f"{path}: unknown key '{key}' in [{section}]; allowed: {', '.join(sorted(allowed))}")
-            if key in ("read", "units", "rename", "play_types") and not isinstance(value, dict):
+            if key in ("read", "units", "rename", "play_types", "csv") and not isinstance(value, dict):
                 raise ConfigError(f"{path}: [{section}] {key} must be a table like [intake.{key}]")
             values["role_names" if section == "roles" else key] = value
     try:

@@ -39,18 +39,24 @@ class InputError(DriftError, ValueError):
     message : str
         What is wrong and how to fix it.
     file, row, column : optional
-        Where. ``row`` is the 1-based data row in the file (header excluded).
+        Where. ``row`` is the row as a spreadsheet shows it (a CSV's header is row 1);
+        ``column`` the export's own name for the column.
+    read_as : str, optional
+        drift's name for that column, shown beside the export's when they differ
+        (``column 'DREB_PCT' (drift's drb_pct)``).
     """
 
-    def __init__(self, message: str, *, file=None, row=None, column=None):
-        self.file, self.row, self.column = file, row, column
+    def __init__(self, message: str, *, file=None, row=None, column=None, read_as=None):
+        self.file, self.row, self.column, self.read_as = file, row, column, read_as
+        self.message = message
         where = []
         if file is not None:
             where.append(str(file))
         if row is not None:
             where.append(f"row {row}")
         if column is not None:
-            where.append(f"column '{column}'")
+            named = f" (drift's {read_as})" if read_as and read_as != column else ""
+            where.append(f"column '{column}'{named}")
         prefix = ", ".join(where)
         super().__init__(f"{prefix}: {message}" if prefix else message)
 

@@ -16,7 +16,7 @@ from drift.errors import ConfigError
 
 __all__ = ["non_negative", "count_from", "seed", "MAX_SEED", "fraction_open", "fraction_closed", "components", "roles",
            "noise_policy", "optional_text", "names", "optional_names", "compare", "text_map",
-           "columns", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
+           "columns", "csv_format", "CSV_SEPARATORS", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
 
 
 def _is_int(value) -> bool:
@@ -139,6 +139,37 @@ def columns(name, value):
     if unknown:
         raise ConfigError(f"[columns] has unknown drift names {sorted(unknown)}; "
                           f"allowed: {', '.join(STANDARD_COLUMNS)}")
+    return value
+
+
+#: separators a text file may use, by the words the config may give them
+CSV_SEPARATORS = {",": ",", ";": ";", "\t": "\t", "|": "|", "comma": ",", "semicolon": ";", "tab": "\t",
+                  "bar": "|", "pipe": "|"}
+
+
+def csv_format(name, value):
+    """``[intake.csv]``: ``separator`` (comma, semicolon, tab or bar) and ``encoding`` (a codec Python knows).
+
+    Either may be left out (drift detects it). The separator comes back as its character.
+    """
+    import codecs
+
+    value = text_map(name, value)
+    unknown = sorted(set(value) - {"separator", "encoding"})
+    if unknown:
+        raise ConfigError(f"[intake.csv] has unknown key(s) {unknown}; allowed: encoding, separator")
+    if "separator" in value:
+        sep = CSV_SEPARATORS.get(value["separator"], CSV_SEPARATORS.get(value["separator"].strip().lower()))
+        if sep is None:
+            raise ConfigError(f"[intake.csv] separator={value['separator']!r} must be one of ',', ';', '\\t' "
+                              "(or 'tab'), '|'")
+        value["separator"] = sep
+    if "encoding" in value:
+        try:
+            codecs.lookup(value["encoding"])
+        except LookupError:
+            raise ConfigError(f"[intake.csv] encoding={value['encoding']!r} is not an encoding Python knows; "
+                              "give one like 'utf-8', 'utf-16', 'windows-1252' or 'latin-1'") from None
     return value
 
 

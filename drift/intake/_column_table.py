@@ -14,10 +14,15 @@ __all__ = ["column_table", "column_summary", "feature_table", "emit_notes"]
 _UNIT_OF = {"share": "fraction", "efficiency": "points per possession", "possessions": "possessions"}
 
 
-def column_table(per_table, units):
-    """One row per (file, column): role, drift name, family, play type, unit, how, note."""
+def column_table(per_table, units, converted=None):
+    """One row per (file, column): role, drift name, family, play type, unit, how, note.
+
+    ``converted``: (file, drift name) -> the unit that file gave the column in, for each
+    conversion; the unit then reads ``"per game -> season total"``, the unit after conversion last.
+    """
     import pandas as pd
 
+    converted = converted or {}
     rows = []
     for where, readings in per_table:
         for r in readings:
@@ -26,6 +31,8 @@ def column_table(per_table, units):
                 unit = "season total"
             elif r.role in ("feature", "sample"):
                 unit = units.get(r.name, _UNIT_OF.get(r.family, ""))
+            if unit and (where, r.name) in converted:
+                unit = f"{converted[(where, r.name)]} -> {unit}"
             rows.append({"file": where, "column": r.source, "role": r.role, "drift_name": r.name,
                          "family": r.family, "play_type": r.play_type, "unit": unit, "how": r.how,
                          "note": r.note})

@@ -17,23 +17,34 @@ from dataclasses import dataclass
 
 from drift.errors import InputError
 
-__all__ = ["MAX_HEADER_ROW", "RawTable", "normalise_season", "refuse_duplicates", "season_label"]
+__all__ = ["MAX_HEADER_ROW", "RawTable", "normalise_season", "refuse_duplicates", "season_label",
+           "ENCRYPTED_MESSAGE"]
 
 #: a header row is looked for in a sheet's first this-many rows
 MAX_HEADER_ROW = 20
+#: an encrypted (password-protected) workbook, in the user's words
+ENCRYPTED_MESSAGE = ("the workbook is protected with a password (encrypted), so drift cannot open it; open it in "
+                     "Excel, remove the password (File > Info > Protect Workbook), save it, and run again (or "
+                     "save the sheet as CSV)")
 _SEASON = re.compile(r"(?<![0-9])((?:19|20)\d{2})(?:[-_/](\d{4}|\d{2}))?(?![0-9])")
 
 
 @dataclass(frozen=True)
 class RawTable:
     """One table as read: ``frame`` with the export's column names, where it came from,
-    the spreadsheet row of its first data row, and a season label from its file/sheet name."""
+    the spreadsheet row of its first data row, and a season label from its file/sheet name.
+
+    ``form`` says how the file was read (``"text, semicolon-separated, Windows-1252"``,
+    ``"Excel workbook (.xls)"``); ``said`` holds notes on what the reader detected or skipped.
+    """
 
     frame: object
     where: str
     first_row: int
     name_season: str | None
     name_problem: str | None
+    form: str = ""
+    said: tuple = ()
 
 
 def normalise_season(text: str) -> str:

@@ -6,19 +6,113 @@ possessions where given; an efficiency by its play type's possessions, i.e.
 minutes x share). This is exact for shares and points per possession when
 possessions are given, and approximate for rate stats (usage, assist,
 rebound percentages), whose true denominators are team events while the
-player was on the floor. If the file carries a combined row (team equal to
-the config's ``total_marker``) that row is used as the season and never
-added to the stints, so no minutes are counted twice.
+player was on the floor.
+
+**Combined rows.** Many exports add a traded player's season total as one more row
+(team ``TOT``, ``2TM``, ``3TM``, or the last team). Such a row is used as the season
+and never added to the stints, so no minutes are counted twice. It is found from the
+data (:func:`find_combined`), not only from its marker:
+
+* ``marker``: its team is the config's ``total_marker`` (``TOT`` by default);
+* ``sum``: its games equal the sum of the player's other rows that season (two or more),
+  and its minutes and possessions do too within rounding (1, 2 %, or one per game,
+  whichever is largest: per-game exports round, to whole minutes at worst);
+* ``label``: its team is no team of its own (carried by two or more players, and at
+  most one in five of its rows is a player's only row that season) and each of its
+  rows holds at least the games, and nine tenths of the minutes, of the player's
+  other rows put together (a stint left out of the export only adds to it).
 """
 
 from __future__ import annotations
 
 from drift.intake.features import FeatureSpec, exposure_matrix
 
-__all__ = ["combine_stints"]
+__all__ = ["combine_stints", "find_combined", "describe_combined", "COMBINED_FIELDS"]
 
 
-def combine_stints(raw, spec: FeatureSpec, *, total_marker=None):
+#: columns of :func:`find_combined`'s table
+COMBINED_FIELDS = ("player_id", "season", "team", "source_file", "source_row", "how")
+_HOW = {"marker": "by the team marker", "sum": "as the sum of the player's other rows",
+        "label": "by a team that is no team of its own"}
+
+
+def _near(value, target, games):
+    import numpy as np
+
+    tol = np.maximum.reduce([np.ones_like(target), 0.02 * np.abs(target), games])
+    return np.abs(value - target) <= tol
+
+
+def _by_label(rest, n_rest, other_games, other_minutes):
+    """Rows whose team is no team of its own and that hold their player's other rows' games and minutes."""
+
+    lone = n_rest == 1
+    stats = rest.assign(_lone=lone, _multi=~lone).groupby("team")[["_lone", "_multi"]].sum()
+    size = stats["_lone"] + stats["_multi"]
+    pseudo = stats.index[(stats["_multi"] >= 2) & (stats["_lone"] <= 0.2 * size)]
+    holds = ~lone & (rest["games"] >= other_games) & (rest["minutes"] >= 0.9 * other_minutes)
+    carried = rest["team"].isin(pseudo) & ~lone
+    # a label is pseudo only when every row of it with other rows holds them
+    failing = set(rest.loc[carried & ~holds, "team"])
+    return carried & holds & ~rest["team"].isin(failing)
+
+
+def find_combined(raw, *, total_marker=None):
+    """The rows that are a traded player's season total, and how each was found (module docstring).
+
+    Returns
+    -------
+    DataFrame
+        One row per combined row, indexed like ``raw``, with :data:`COMBINED_FIELDS`.
+    """
+    import numpy as np
+    import pandas as pd
+
+    how = pd.Series("", index=raw.index, dtype=object)
+    if total_marker:
+        how[raw["team"].eq(total_marker)] = "marker"
+    key = [raw["player_id"], raw["season"]]
+    has_marker = how.eq("marker").groupby(key).transform("any")
+    rest = raw[~has_marker]
+    rkey = [rest["player_id"], rest["season"]]
+    n_rest = rest.groupby(rkey)["team"].transform("size")
+    sums = ["games", "minutes"] + (["possessions"] if "possessions" in rest.columns else [])
+    others = rest.groupby(rkey)[sums].transform("sum") - rest[sums]
+    games = rest["games"].to_numpy(float)
+    by_sum = (n_rest >= 3) & (games > 0) & (rest["games"] == others["games"])
+    for column in sums[1:]:
+        value, target = rest[column].to_numpy(float), others[column].to_numpy(float)
+        unknown = ~np.isfinite(value) | ~np.isfinite(target)
+        by_sum &= unknown | _near(value, target, games)
+    # one combined row per player-season: the one with the most minutes if several fit
+    by_sum &= rest["minutes"].where(by_sum).groupby(rkey).transform("max").eq(rest["minutes"])
+    by_sum &= ~by_sum.groupby(rkey).cumsum().gt(1)
+    how[by_sum[by_sum].index] = "sum"
+    label = _by_label(rest, n_rest, others["games"], others["minutes"]) & ~by_sum
+    label &= ~label.groupby(rkey).cumsum().gt(1)
+    how[label[label].index] = "label"
+    found = raw.loc[how.ne(""), ["player_id", "season", "team", "source_file", "source_row"]].copy()
+    found["how"] = how[how.ne("")]
+    return found
+
+
+def describe_combined(found, total_marker=None) -> str:
+    """One sentence on the combined rows found (``""`` when none), for ``drift check`` and the report."""
+    if found is None or not len(found):
+        return ""
+    parts = []
+    for how in ("marker", "sum", "label"):
+        rows = found[found["how"] == how]
+        if len(rows):
+            teams = ", ".join(repr(t) for t in dict.fromkeys(rows["team"]))
+            what = f"{_HOW[how]} {total_marker!r}" if how == "marker" else f"{_HOW[how]} (team {teams})" \
+                if how == "label" else _HOW[how]
+            parts.append(f"{len(rows)} {what}")
+    return (f"{len(found)} combined row(s) (a traded player's season total) found and used as the season, their "
+            f"stints not added again: {'; '.join(parts)}")
+
+
+def combine_stints(raw, spec: FeatureSpec, *, total_marker=None, combined=None):
     """One row per player-season, plus the stints of traded players.
 
     Parameters
@@ -26,6 +120,10 @@ def combine_stints(raw, spec: FeatureSpec, *, total_marker=None):
     raw : DataFrame
         Rows as read by :func:`drift.intake.read_seasons`.
     spec : FeatureSpec
+    total_marker : str, optional
+        The team value of a combined row (the config's ``total_marker``).
+    combined : DataFrame, optional
+        :func:`find_combined`'s table, when the caller already has it.
 
     Returns
     -------
@@ -41,9 +139,11 @@ def combine_stints(raw, spec: FeatureSpec, *, total_marker=None):
     import numpy as np
     import pandas as pd
 
+    if combined is None:
+        combined = find_combined(raw, total_marker=total_marker)
+    is_total = pd.Series(raw.index.isin(combined.index), index=raw.index)
     raw = raw.copy()
     raw["_order"] = np.arange(len(raw))
-    is_total = raw["team"].eq(total_marker) if total_marker else pd.Series(False, index=raw.index)
     parts = raw[~is_total]
     totals = raw[is_total].set_index(["player_id", "season"])
     sort_cols = ["player_id", "season"] + (["stint"] if "stint" in parts.columns else []) + ["_order"]

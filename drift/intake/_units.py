@@ -3,15 +3,21 @@
 Per table (:func:`table_units`):
 
 * **Play-type shares** are fractions of the player's possessions. A table whose
-  shares go above 1 (or were typed as ``"15%"``) is in percent and is divided by
-  100. A row whose shares add up to more than 1.03 is refused; when shares look
-  complete (median row sum near 1), rows summing below 0.9 are warned about.
+  typical (median) share is above 1, or typed as ``"15%"``, is in percent and is
+  divided by 100. A row whose shares add up to more than 1.03 (in the unit read) is
+  refused, never rescaled: shares adding up to 3 are neither fractions nor percent
+  but columns that are not shares of one whole. When shares look complete (median
+  row sum near 1), rows summing below 0.9 are warned about.
 * **Minutes and possessions** are season totals. A table whose minutes never pass
   60 while its median player has 10 or more games holds minutes per game: they
   are multiplied by games (possessions likewise, below 40). With fewer games it
-  cannot be told, so it is refused unless ``[intake.units]`` says which.
+  cannot be told, so it is refused unless ``[intake.units]`` says which. A table
+  whose values are per game but for a few (nine in ten at most 60) has impossible
+  cells: they are refused, naming the first.
 * **Games** must be whole numbers (an average is refused).
-* **Rates** (``*_pct``, ``*_rate``): a table is in percent when a value passes 1,
+* **Rates** (``*_pct``, ``*_rate``): a table is in percent when a value passes the
+  largest the rate can hold as a fraction (1; 1.5 for true shooting and effective
+  field-goal percentage, 5 for the free-throw rate; :mod:`drift.intake._ranges`),
   else in fractions.
 
 Across tables (:func:`harmonise_rates`): every season of a rate must share one unit;
@@ -46,11 +52,13 @@ def _share_units(frame, shares, where, first_row, how, units):
                          file=where, row=first_row + int(r), column=shares[c])
     said = {units.get(s) for s in shares} - {None}
     percent = "percent" in said or any(how.get(s) == "percent strings" for s in shares)
+    sums = np.nansum(values, axis=1)
     if not said and not percent and np.nanmax(values, initial=0.0) > 1.0:
         used = values[np.isfinite(values) & (values > 0)]
-        sums = np.nansum(values, axis=1)
-        percent = np.median(used) > 1.0 or np.median(sums[sums > 0]) > 1.5
-        if not percent:
+        # a typical share above 1 is percent; fractions with a few cells above 1 are not made percent
+        # by rows that add up to far more than one whole (that is refused below, never rescaled)
+        percent = np.median(used) > 1.0
+        if not percent and not np.median(sums[sums > 0]) > _SHARE_SUM_MAX:
             r, c = np.argwhere(values > 1.0)[0]
             raise InputError(
                 f"share {values[r, c]:g} is above 1 while this file's other shares are fractions; fix the "
@@ -64,13 +72,16 @@ def _share_units(frame, shares, where, first_row, how, units):
         values = values / 100.0
         frame[shares] = values
         notes.append("play-type shares in percent (0-100), divided by 100")
-    sums = np.nansum(values, axis=1)
+        sums = np.nansum(values, axis=1)
     over = np.flatnonzero(sums > _SHARE_SUM_MAX)
     if len(over):
-        listed = ", ".join(f"row {first_row + i} ({sums[i]:.2f})" for i in over[:5])
-        raise InputError(f"play-type shares add up to more than 1 in {len(over)} row(s): {listed}; "
-                         "each row's shares are parts of one whole (check the unit, or a column "
-                         "read as a share that is not one, under [intake.read])", file=where)
+        listed = ", ".join(f"row {first_row + i} ({sums[i] * (100 if percent else 1):.2f}"
+                           f"{'%' if percent else ''})" for i in over[:5])
+        unit = "percent" if percent else "fractions"
+        raise InputError(f"play-type shares add up to more than 1 in {len(over)} row(s): {listed}, read as {unit}; "
+                         "each row's shares are parts of one whole, so drift refuses them rather than rescale "
+                         "(check the unit, or a column read as a share that is not one, under [intake.read])",
+                         file=where, row=first_row + int(over[0]))
     used = sums[np.isfinite(values).any(axis=1)]
     if len(used) and abs(np.median(used) - 1.0) < 0.03:
         low = np.flatnonzero((sums < 0.9) & np.isfinite(values).any(axis=1))
@@ -81,7 +92,7 @@ def _share_units(frame, shares, where, first_row, how, units):
     return notes
 
 
-def _per_game(frame, column, limit, where, units):
+def _per_game(frame, column, limit, where, units, first_row):
     import numpy as np
 
     if column not in frame.columns:
@@ -92,9 +103,18 @@ def _per_game(frame, column, limit, where, units):
     if said == "total":
         return None
     small = np.nanmax(values, initial=0.0) <= limit
+    told = np.nanmedian(games) >= _GAMES_FOR_TELLING
+    finite = values[np.isfinite(values)]
+    looks_per_game = said is None and told and len(finite) > 0 and np.percentile(finite, 90) <= limit
+    if not small and looks_per_game:
+        i = int(np.flatnonzero(values > limit)[0])
+        raise InputError(
+            f"value {values[i]:g} is impossible per game, and the column's values are per game (nine in ten "
+            f"at most {limit:g}); fix the cell, or if they are season totals say so: [intake.units] "
+            f'{column} = "total"', file=where, row=first_row + i, column=column)
     if said != "per_game" and not small:
         return None
-    if said != "per_game" and np.nanmedian(games) < _GAMES_FOR_TELLING:
+    if said != "per_game" and not told:
         raise InputError(
             f"cannot tell whether {column} are season totals or per game (none above {limit:g}, median "
             f"games {np.nanmedian(games):g}); say it in the config: [intake.units] {column} = "
@@ -103,16 +123,20 @@ def _per_game(frame, column, limit, where, units):
     return f"{column} per game, multiplied by games to season totals"
 
 
-def table_units(frame, features, families, where, *, first_row=2, how=None, units=None):
-    """Check and convert one table's units in place; returns (notes, rate units).
+def table_units(frame, features, families, where, *, first_row=2, how=None, units=None, canonical=None):
+    """Check and convert one table's units in place; returns (notes, rate units, converted).
 
     ``features``/``families``: drift names and families of the table's features;
     ``how``: drift name -> how its text was parsed (``"percent strings"`` ...);
-    ``units``: the config's ``[intake.units]``.
+    ``units``: the config's ``[intake.units]``; ``canonical``: feature -> the drift name it was
+    recognised as (before ``[intake.rename]``). ``converted``: drift name -> the unit the
+    table gave it in, for every column converted (``"per game"``, ``"percent"``).
     """
     import numpy as np
 
-    how, units = how or {}, units or {}
+    from drift.intake._ranges import fraction_max
+
+    how, units, canonical = how or {}, units or {}, canonical or {}
     games = frame["games"].to_numpy(float)
     fractional = np.flatnonzero(np.isfinite(games) & (np.mod(games, 1.0) != 0))
     if len(fractional):
@@ -121,21 +145,24 @@ def table_units(frame, features, families, where, *, first_row=2, how=None, unit
                          "(is this an average?)", file=where, row=first_row + i, column="games")
     shares = [f for f, fam in zip(features, families) if fam == "share"]
     notes = _share_units(frame, shares, where, first_row, how, units)
+    converted = {s: "percent" for s in shares} if any("divided by 100" in n for n in notes) else {}
     for column, limit in (("minutes", _PER_GAME_MINUTES_MAX), ("possessions", _PER_GAME_POSSESSIONS_MAX)):
-        note = _per_game(frame, column, limit, where, units)
+        note = _per_game(frame, column, limit, where, units, first_row)
         if note:
             notes.append(note)
+            converted[column] = "per game"
     rate_units = {}
     for f, fam in zip(features, families):
         if fam in ("rate", "shooting"):
             values = frame[f].to_numpy(float)
             if f in units:
                 rate_units[f] = units[f]
-            elif how.get(f) == "percent strings" or np.nanmax(np.abs(values), initial=0.0) > 1.0:
+            elif how.get(f) == "percent strings" or np.nanmax(np.abs(values), initial=0.0) > fraction_max(
+                    canonical.get(f, f)):
                 rate_units[f] = "percent"
             else:
                 rate_units[f] = "fraction"
-    return notes, rate_units
+    return notes, rate_units, converted
 
 
 def harmonise_rates(tables):
@@ -149,11 +176,12 @@ def harmonise_rates(tables):
     -------
     units : dict feature -> unit used
     notes : list of str
+    converted : dict (where, feature) -> the unit that table gave it in, for each conversion
     """
     import numpy as np
 
     features = list(dict.fromkeys(f for _, _, ru in tables for f in ru))
-    units, notes = {}, []
+    units, notes, converted_from = {}, [], {}
     for f in features:
         seen = [(frame, where, ru[f]) for frame, where, ru in tables if f in ru]
         kinds = [u for _, _, u in seen]
@@ -174,6 +202,7 @@ def harmonise_rates(tables):
                     f"is right; give every season one unit, or set [intake.units] {f} = \"{target}\"",
                     file=where, column=f)
             frame[f] = converted
+            converted_from[(where, f)] = "fraction" if target == "percent" else "percent"
             notes.append(f"{where}: {f} in {'fractions' if target == 'percent' else 'percent'}, "
                          f"converted to {target} like the other seasons")
-    return units, notes
+    return units, notes, converted_from

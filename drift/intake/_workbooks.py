@@ -3,9 +3,10 @@
 A sheet is a *data sheet* when one of its first :data:`~drift.rawtables.MAX_HEADER_ROW`
 rows names every required column (after the config's ``[columns]`` map and drift's
 name rules). Title rows above that header are skipped; sheets without such a row
-(notes, read-me, pivot sheets) are skipped and said so. Several data sheets are
-read whole when their columns agree and refused when they differ, so a workbook
-is never read half.
+(notes, read-me, pivot sheets) are skipped. Hidden sheets are skipped and said (unless
+``[intake] sheet`` names one). Several data sheets are read whole when their columns
+agree and refused when they differ, so a workbook is never read half. ``.xlsx`` is read by
+openpyxl, ``.xls`` by xlrd; an encrypted workbook is refused in plain words.
 """
 
 from __future__ import annotations
@@ -13,7 +14,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from drift.errors import InputError
-from drift.intake._rawtables import MAX_HEADER_ROW, RawTable, refuse_duplicates, season_label
+from drift.intake._rawtables import ENCRYPTED_MESSAGE, MAX_HEADER_ROW, RawTable, refuse_duplicates, season_label
 
 __all__ = ["read_workbook"]
 
@@ -61,37 +62,81 @@ def _table(raw, header_at, where):
     return frame.reset_index(drop=True)
 
 
-def read_workbook(path: Path, *, required, sheet=None, recognise):
-    """Every data sheet of a workbook as :class:`RawTable` s (see the module docstring)."""
+def _sheets(xl, engine):
+    """Every sheet's name and whether it is shown (hidden and 'very hidden' sheets are not)."""
+    book = xl.book
+    if engine == "xlrd":
+        return {sh.name: sh.visibility == 0 for sh in book.sheets()}
+    return {ws.title: getattr(ws, "sheet_state", "visible") == "visible" for ws in book.worksheets}
+
+
+def _open(path, engine):
     import pandas as pd
 
-    sheets = pd.read_excel(path, sheet_name=None, header=None, dtype=object)
-    if sheet is not None:
-        if sheet not in sheets:
-            raise InputError(f"has no sheet {sheet!r} (config [intake] sheet); its sheets: {list(sheets)}",
-                             file=path)
-        sheets = {sheet: sheets[sheet]}
+    try:
+        return pd.ExcelFile(path, engine=engine)
+    except ImportError:
+        raise InputError("reading .xls workbooks needs xlrd: pip install xlrd (or save the file as .xlsx)",
+                         file=path) from None
+    except Exception as exc:
+        if "encrypt" in str(exc).lower():  # xlrd: "Workbook is encrypted"
+            raise InputError(ENCRYPTED_MESSAGE, file=path) from None
+        raise
+
+
+def _data_sheets(xl, names, required, recognise):
+    import pandas as pd
+
     found, skipped = [], {}
-    for name, raw in sheets.items():
+    for name in names:
+        raw = pd.read_excel(xl, sheet_name=name, header=None, dtype=object)
         raw = raw.astype(object).where(raw.notna(), None)
         at, lacking = _header_row(raw.values.tolist(), required, recognise)
         if at is None:
             skipped[name] = lacking
         else:
             found.append((name, raw, at))
+    return found, skipped
+
+
+def read_workbook(path: Path, *, required, sheet=None, recognise, engine="openpyxl", said=()):
+    """Every data sheet of a workbook as :class:`RawTable` s (see the module docstring).
+
+    ``engine``: ``"openpyxl"`` (``.xlsx``) or ``"xlrd"`` (``.xls``); ``said``: notes the caller
+    adds to every table (what the file turned out to be).
+    """
+    with _open(path, engine) as xl:
+        shown = _sheets(xl, engine)
+        names = list(xl.sheet_names)
+        if sheet is not None:
+            if sheet not in names:
+                raise InputError(f"has no sheet {sheet!r} (config [intake] sheet); its sheets: {names}",
+                                 file=path)
+            names, hidden = [sheet], []
+        else:
+            hidden = [n for n in names if not shown.get(n, True)]
+            names = [n for n in names if shown.get(n, True)]
+        found, skipped = _data_sheets(xl, names, required, recognise)
+        if not found and hidden and _data_sheets(xl, hidden, required, recognise)[0]:
+            raise InputError(f"its only data sheet(s) {hidden} are hidden; unhide the one to read, or name it "
+                             "with [intake] sheet", file=path)
+    if hidden:
+        said = tuple(said) + (f"hidden sheet(s) {', '.join(repr(n) for n in hidden)} skipped (name one with "
+                              "[intake] sheet to read it)",)
     if not found:
         detail = "; ".join(f"sheet {n!r} lacks {lack}" for n, lack in skipped.items())
         raise InputError(
             f"no sheet has a header row (within its first {MAX_HEADER_ROW} rows) naming the required columns "
             f"({detail}); map your names in the config's [columns] table, or name the sheet with "
             "[intake] sheet", file=path)
+    form = f"Excel workbook ({'.xls' if engine == 'xlrd' else '.xlsx'})"
     tables = []
     for name, raw, at in found:
         where = f"{path}, sheet {name!r}"
         label, problem = season_label(name)
         if label is None:
             label, problem = season_label(path.stem)
-        tables.append(RawTable(_table(raw, at, where), where, at + 2, label, problem))
+        tables.append(RawTable(_table(raw, at, where), where, at + 2, label, problem, form=form, said=said))
     if len(tables) > 1:
         first = list(tables[0].frame.columns)
         for t in tables[1:]:

@@ -18,7 +18,8 @@ class DataCheck:
 
     ``prepared``: the :class:`~drift.api.Prepared` data (None when intake refused it);
     ``columns``: one row per export column and reading (see
-    :func:`drift.intake._column_table.column_summary`); ``seasons``: per season the files,
+    :func:`drift.intake._column_table.column_summary`), also when intake refused the data
+    (then the columns read before the problem; None if none was); ``seasons``: per season the files,
     rows, player-seasons, kept and excluded; ``excluded_by_reason``: counts;
     ``warnings``: every warning raised; ``problems``: why a run would not work
     (empty when it would).
@@ -109,7 +110,9 @@ def check_data(prepare, config, check_seasons) -> DataCheck:
             prepared = prepare()
         except DriftError as exc:
             said = tuple(str(w.message) for w in caught if issubclass(w.category, DriftWarning))
-            return DataCheck(warnings=said, problems=(str(exc),))
+            read = getattr(exc, "columns", None)  # how the columns read before the problem were understood
+            return DataCheck(columns=column_summary(read) if read is not None else None, warnings=said,
+                             problems=(str(exc),))
     said = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, DriftWarning)))
     excluded = prepared.excluded
     by_reason = (excluded["reason_code"].map(lambda code: _reason_kind(code, config)).value_counts().rename_axis("reason").reset_index(name="n")
@@ -130,6 +133,31 @@ def _text_table(frame, columns, headers, limit=None):
     return "\n".join("  " + x for x in out)
 
 
+def _columns_part(columns) -> str:
+    cols = columns.copy()
+    cols["read as"] = [(n if r == "standard" else f"{r}: {n}" if n else r)
+                       for r, n in zip(cols["role"], cols["drift_name"])]
+    cols["why"] = [note or how for note, how in zip(cols["note"], cols["how"])]
+    return "\nColumns (how each was read; 'files' = in how many tables)\n" + _text_table(
+        cols, ["column", "read as", "family", "play_type", "unit", "files", "why"],
+        ["column", "read as", "family", "play type", "unit", "files", "rule / note"])
+
+
+def _combined_part(prepared) -> str:
+    found = prepared.combined
+    if found is None or not len(found):
+        return "\nCombined rows (a traded player's season total): none found"
+    counts = found["how"].value_counts()
+    words = {"marker": "by the team marker", "sum": "as the sum of his other rows",
+             "label": "by a team of no players of its own"}
+    how = ", ".join(f"{int(counts[k])} {w}" for k, w in words.items() if k in counts)
+    shown = found.assign(file=found["source_file"], row=found["source_row"], found=found["how"].map(words))
+    return (f"\nCombined rows: {len(found)} ({how}), each a traded player's season total, used as his season; "
+            "his stints are not added again\n"
+            + _text_table(shown, ["file", "row", "player_id", "season", "team", "found"],
+                          ["file", "row", "player_id", "season", "team", "found"], limit=20))
+
+
 def format_check(check: DataCheck) -> str:
     """The dry run as readable plain-text tables (what ``drift check`` prints)."""
     parts = []
@@ -141,13 +169,16 @@ def format_check(check: DataCheck) -> str:
         parts.append("\nSeasons\n" + _text_table(check.seasons, ["season", "player_seasons", "kept", "excluded",
                                                               "files"],
                                                  ["season", "player-seasons", "kept", "excluded", "files"]))
-        cols = check.columns.copy()
-        cols["read as"] = [(n if r == "standard" else f"{r}: {n}" if n else r)
-                           for r, n in zip(cols["role"], cols["drift_name"])]
-        cols["why"] = [note or how for note, how in zip(cols["note"], cols["how"])]
-        parts.append("\nColumns (how each was read; 'files' = in how many tables)\n" + _text_table(
-            cols, ["column", "read as", "family", "play_type", "unit", "files", "why"],
-            ["column", "read as", "family", "play type", "unit", "files", "rule / note"]))
+        sources = p.reading.sources
+        if "read_as" in sources.columns:
+            parts.append("\nFiles (how each was read)\n" + _text_table(
+                sources, ["file", "read_as", "seasons", "rows"], ["file", "read as", "seasons", "rows"]))
+        parts.append(_combined_part(p))
+    if check.columns is not None:
+        if check.prepared is None:
+            parts.append("Read so far (the problem below stopped the reading)")
+        parts.append(_columns_part(check.columns))
+    if check.prepared is not None:
         if check.excluded_by_reason is not None:
             parts.append("\nExcluded player-seasons by reason\n" + _text_table(
                 check.excluded_by_reason, ["reason", "n"], ["reason", "player-seasons"]))

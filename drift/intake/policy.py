@@ -27,6 +27,7 @@ class IntakePolicy(SettingsPart):
     units: dict = field(default_factory=dict)
     rename: dict = field(default_factory=dict)
     play_types: dict = field(default_factory=dict)
+    csv: dict = field(default_factory=dict)
     min_games: int = 20
     min_minutes_per_game: float = 10.0
     min_stint_games: int = 10
@@ -35,7 +36,7 @@ class IntakePolicy(SettingsPart):
         "columns": rules.columns, "total_marker": rules.optional_text,
         "features": rules.optional_names, "exclude": rules.names, "sheet": rules.optional_text,
         "read": rules.text_map, "units": rules.text_map, "rename": rules.text_map,
-        "play_types": rules.text_map,
+        "play_types": rules.text_map, "csv": rules.csv_format,
         "min_games": rules.count_from(0), "min_minutes_per_game": rules.non_negative,
         "min_stint_games": rules.count_from(0),
     }

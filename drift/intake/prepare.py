@@ -19,7 +19,10 @@ class Prepared:
     ``seasons``: every combined player-season; ``kept``: those passing the filters;
     ``excluded``: the others with a reason; ``stints``: qualifying stints of traded
     players; ``missing``: per-feature counts of missing values and what was done;
-    ``reading``: how each column was read, units, conversions (:class:`~drift.intake.IntakeReading`).
+    ``reading``: how each column was read, units, conversions (:class:`~drift.intake.IntakeReading`);
+    ``combined``: the rows found to be a traded player's season total, used as his season
+    (:data:`drift.intake._stints.COMBINED_FIELDS`: player, season, team, where, and ``how``:
+    ``marker``, ``sum`` or ``label``).
     """
 
     seasons: object
@@ -31,6 +34,7 @@ class Prepared:
     files: tuple
     ignored_columns: tuple
     reading: object = None
+    combined: object = None
 
 
 def _missing_table(seasons, spec, filled):
@@ -58,17 +62,45 @@ def prepare(data, config: IntakePolicy | None = None, *, progress=None) -> Prepa
     -------
     Prepared
     """
-    from drift.intake._stints import combine_stints
-    from drift.intake.features import apply_filters, feature_spec, fill_unused_shares
     from drift.intake.read import read_seasons
 
     config = intake_policy(config)
     st = stages(progress)
     with st.stage("read"):
         raw = read_seasons(data, config)
+    try:
+        return _prepare_read(raw, config, st)
+    except InputError as exc:  # drift check still shows how the columns were read
+        exc.columns = raw.reading.columns
+        raise
+
+
+def _combined(raw, config):
+    """The combined rows, and the reading with a note saying how many were found and how."""
+    import dataclasses
+    import warnings
+
+    from drift.errors import DataQualityWarning
+    from drift.intake._stints import describe_combined, find_combined
+
+    found = find_combined(raw.table, total_marker=config.total_marker)
+    said = describe_combined(found, config.total_marker)
+    if not said:
+        return found, raw.reading
+    if (found["how"] != "marker").any():
+        warnings.warn(f"{said}; `drift check` lists them (set [intake] total_marker if your export marks them)",
+                      DataQualityWarning, stacklevel=3)
+    return found, dataclasses.replace(raw.reading, notes=raw.reading.notes + (said,))
+
+
+def _prepare_read(raw, config, st):
+    from drift.intake._stints import combine_stints
+    from drift.intake.features import apply_filters, feature_spec, fill_unused_shares
+
     spec = feature_spec(raw.features)
     with st.stage("combine stints", len(raw.table)):
-        seasons, stints = combine_stints(raw.table, spec, total_marker=config.total_marker)
+        combined, reading = _combined(raw, config)
+        seasons, stints = combine_stints(raw.table, spec, combined=combined)
         seasons, filled = fill_unused_shares(seasons, spec)
     missing = _missing_table(seasons, spec, filled)
     filled_with_mean = missing[(missing["family"].isin(["rate", "shooting"])) & (missing["missing"] > 0)]
@@ -92,7 +124,7 @@ def prepare(data, config: IntakePolicy | None = None, *, progress=None) -> Prepa
             "--min-games / --min-minutes", file=raw.files[0])
     return Prepared(seasons=seasons, kept=kept, excluded=excluded, stints=stints,
                     features=raw.features, missing=missing, files=raw.files,
-                    ignored_columns=raw.ignored_columns, reading=raw.reading)
+                    ignored_columns=raw.ignored_columns, reading=reading, combined=combined)
 
 
 def reference_pool(prepared: Prepared, reference=None):

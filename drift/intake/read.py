@@ -22,7 +22,7 @@ from drift.intake.policy import REQUIRED_COLUMNS, STANDARD_COLUMNS, IntakePolicy
 
 __all__ = ["RawSeasons", "IntakeReading", "read_seasons", "SUPPORTED_SUFFIXES", "COLUMN_TABLE_FIELDS"]
 
-SUPPORTED_SUFFIXES = (".csv", ".xlsx", ".parquet")
+SUPPORTED_SUFFIXES = (".csv", ".tsv", ".xlsx", ".xlsm", ".xls", ".parquet")
 _TEXT = ("player_id", "player", "season", "team")
 _NUMERIC = ("games", "minutes", "possessions", "stint")
 #: columns of :attr:`RawSeasons.columns`
@@ -35,7 +35,8 @@ class IntakeReading:
 
     ``columns``: one row per file and column with :data:`COLUMN_TABLE_FIELDS` (how it
     was understood); ``notes``: conversions and warnings, one line each; ``units``:
-    feature -> unit; ``sources``: one row per file (or sheet) read: ``file, seasons, rows``.
+    feature -> unit; ``sources``: one row per file (or sheet) read: ``file, seasons, rows,
+    read_as`` (how the file was read: ``"text, semicolon-separated, Windows-1252"``).
     """
 
     columns: object
@@ -73,27 +74,6 @@ class RawSeasons:
     reading: IntakeReading | None = None
 
 
-def _files_of(paths) -> list[Path]:
-    files = []
-    for p in paths:
-        p = Path(p)
-        if not p.exists():
-            raise InputError("path not found; give a season file or a folder of them", file=p)
-        if p.is_dir():
-            found = sorted(f for f in p.iterdir() if f.is_file() and f.suffix.lower() in SUPPORTED_SUFFIXES
-                           and not f.name.startswith(("~$", ".")))
-            if not found:
-                raise InputError(
-                    f"folder holds no season files ({', '.join(SUPPORTED_SUFFIXES)})", file=p)
-            files.extend(found)
-        elif p.suffix.lower() in SUPPORTED_SUFFIXES:
-            files.append(p)
-        else:
-            raise InputError(
-                f"unsupported file type '{p.suffix}'; use one of {', '.join(SUPPORTED_SUFFIXES)}", file=p)
-    return files
-
-
 def _plan(config):
     from drift.intake._columns import understand_columns
 
@@ -104,40 +84,6 @@ def _plan(config):
         return {r.name for r in understand_columns(names, config) if r.role == "standard"}
 
     return text_columns, recognise
-
-
-def _refuse_clashes(readings, where):
-    by_name = {}
-    for r in readings:
-        if r.role in ("standard", "feature", "unknown"):
-            by_name.setdefault(r.name, []).append(r.source)
-    for name, sources in by_name.items():
-        if len(sources) > 1:
-            raise InputError(
-                f"columns {sources} would all be read as {name!r}; keep one, or say which is which in the "
-                "config ([columns] for drift's own columns, [intake.read] or [intake] exclude for features)",
-                file=where)
-
-
-def _require(readings, frame, table, config):
-    where = table.where
-    present = {r.name for r in readings if r.role == "standard"}
-    missing = [c for c in REQUIRED_COLUMNS if c not in present and not (c == "season" and table.name_season)]
-    if missing == ["season"]:
-        raise InputError(table.name_problem, file=where)
-    unmatched = [c for c in missing if c in config.columns]
-    if unmatched:
-        c = unmatched[0]
-        raise InputError(f"the config's [columns] maps {c} to {config.columns[c]!r}, but this file has no "
-                         f"such column; fix the name in [columns] (columns here: {', '.join(frame.columns[:12])})",
-                         file=where)
-    if missing:
-        hint = ", ".join(f'{m} = "..."' for m in missing)
-        cols = list(frame.columns)
-        found = ", ".join(cols[:12]) + (", ..." if len(cols) > 12 else "")
-        raise InputError(
-            f"missing required column(s) {missing}; found {found}. "
-            f"Rename them or map them in the config's [columns] table ({hint})", file=where)
 
 
 def _season(frame, table, where):
@@ -208,45 +154,61 @@ def _identity(frame, where, first_row):
     frame["player"] = frame["player"].fillna(frame["player_id"])
 
 
-def _check_counts(frame, where, first_row):
-    for column in ("games", "minutes"):
-        values = frame[column]
-        bad = values.isna() | (values < 0)
-        if bad.any():
-            i = int(bad.to_numpy().argmax())
-            shown = "empty" if values.isna().iloc[i] else f"{values.iloc[i]:g}"
-            raise InputError(f"value {shown} is not allowed; {column} must be a number >= 0",
-                             file=where, row=first_row + i, column=column)
+def _read_table(table, config, notes, seen):
+    """One raw table -> (frame with drift names, readings, rate units, converted units).
 
-
-def _read_table(table, config, notes):
-    """One raw table -> (frame with drift names, readings, rate units)."""
+    ``seen`` gets (where, readings) as soon as the columns are understood, so a refusal
+    further on can still show how the columns were read (``drift check``).
+    """
+    from drift.intake._names import in_export_words
     from drift.intake._columns import understand_columns
-    from drift.intake._units import table_units
 
     where, frame = table.where, table.frame
     if frame.empty and len(frame.columns) == 0:
         raise InputError("file is empty; remove it or add its season's rows", file=where)
     readings = understand_columns(list(frame.columns), config)
-    _refuse_clashes(readings, where)
-    _require(readings, frame, table, config)
+    seen.append((where, readings))
+    try:
+        return _read_columns(table, readings, config, notes, seen)
+    except InputError as exc:
+        raise in_export_words(exc, seen[-1][1]) from None
+
+
+def _read_columns(table, readings, config, notes, seen):
+    from drift.intake import _ranges
+    from drift.intake._names import refuse_clashes, require_columns
+    from drift.intake._units import table_units
+
+    where, frame = table.where, table.frame
+    refuse_clashes(readings, where)
+    require_columns(readings, frame, table, config)
     if frame.empty:
         raise InputError("file has a header but no rows; remove it or add its season's rows", file=where)
     used = [r for r in readings if r.role in ("standard", "feature", "unknown")]
     frame = frame[[r.source for r in used]].copy()
     frame.columns = [r.name for r in used]
     readings, how = _numbers(frame, readings, table, where, notes)
+    seen[-1] = (where, readings)
     _identity(frame, where, table.first_row)
     _season(frame, table, where)
-    _check_counts(frame, where, table.first_row)
+    _ranges.check_present(frame, where, table.first_row)
     _refuse_lone_efficiency(readings, where)
     feats = [r for r in readings if r.role == "feature"]
-    table_notes, rate_units = table_units(frame, [r.name for r in feats], [r.family for r in feats], where,
-                                          first_row=table.first_row, how=how, units=dict(config.units))
+    notes.extend((where, n) for n in table.said)
+    table_notes, rate_units, converted = table_units(
+        frame, [r.name for r in feats], [r.family for r in feats], where, first_row=table.first_row, how=how,
+        units=dict(config.units), canonical=_canonical(config))
     notes.extend((where, n) for n in table_notes)
+    _ranges.check_counts(frame, where, table.first_row, converted)
+    _ranges.check_efficiencies(frame, [r.name for r in feats if r.family == "efficiency"], where, table.first_row)
     frame["source_file"] = where
     frame["source_row"] = range(table.first_row, table.first_row + len(frame))
-    return frame, readings, rate_units
+    return frame, readings, rate_units, converted
+
+
+def _canonical(config):
+    """Feature name -> the drift name its column was recognised as, before ``[intake.rename]``."""
+    return {new: old for old, new in dict(config.rename).items()}
 
 
 def _refuse_lone_efficiency(readings, where):
@@ -277,7 +239,7 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     Parameters
     ----------
     paths : path or list of paths
-        Season files (``.csv``, ``.xlsx``, ``.parquet``) and/or folders of them.
+        Season files (``.csv``, ``.tsv``, ``.xlsx``, ``.xls``, ``.parquet``) and/or folders of them.
         The season comes from a ``season`` column, else from the file (or sheet) name.
     config : Config or IntakePolicy, optional
         Column map, name rules, sheet and units (see docs/input.md, "Config file").
@@ -289,56 +251,106 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     Raises
     ------
     InputError
-        With the file, row and column of the first problem found.
+        With the file, row and column of the first problem found. Its ``columns`` attribute
+        holds how the columns read before the problem were understood (:data:`COLUMN_TABLE_FIELDS`;
+        ``drift check`` shows it), or None when no column was read.
     """
-    import pandas as pd
-
-    from drift.intake._readers import read_tables
-    from drift.intake._units import harmonise_rates
+    from drift.intake._column_table import column_table
+    from drift.intake._readers import season_files
 
     config = intake_policy(config)
     if isinstance(paths, (str, Path)):
         paths = [paths]
-    files = _files_of(paths)
+    seen, converted = [], {}
+    try:
+        files = season_files(paths, SUPPORTED_SUFFIXES)
+        return _read_all(files, config, seen, converted)
+    except InputError as exc:
+        exc.columns = column_table(seen, {}, converted) if seen else None
+        raise
+
+
+def _read_all(files, config, seen, converted):
+    from drift.intake._readers import read_tables
+
     text_columns, recognise = _plan(config)
     required = [c for c in REQUIRED_COLUMNS if c != "season"]
-    frames, per_table, rate_units, notes = [], [], [], []
+    frames, per_table, rate_units, notes, forms = [], [], [], [], {}
     for path in files:
         for table in read_tables(path, text_columns=text_columns, recognise=recognise, required=required,
-                                 sheet=config.sheet):
-            frame, readings, units = _read_table(table, config, notes)
+                                 sheet=config.sheet, csv=dict(config.csv)):
+            frame, readings, units, table_converted = _read_table(table, config, notes, seen)
+            converted.update({(table.where, name): unit for name, unit in table_converted.items()})
             frames.append(frame)
             per_table.append((table.where, readings))
             rate_units.append((frame, table.where, units))
-    seen = {r.source for _, rs in per_table for r in rs}
-    unused = [f"{ours} = {theirs!r}" for ours, theirs in config.columns.items() if theirs not in seen]
+            forms[table.where] = table.form
+    names = {r.source for _, rs in per_table for r in rs}
+    unused = [f"{ours} = {theirs!r}" for ours, theirs in config.columns.items() if theirs not in names]
     if unused:
         raise InputError(f"the config's [columns] entry {unused[0]} matches no column of the data; fix or "
                          "remove it", file=files[0])
     all_features = _feature_order(per_table, config)
     if not all_features:
         raise InputError("no numeric feature columns found; see docs/input.md", file=files[0])
+    _refuse_lacking(frames, per_table, all_features)
+    units = _harmonise(rate_units, per_table, notes, converted, config)
+    return _assemble(files, frames, per_table, all_features, units, notes, converted, forms)
+
+
+def _refuse_lacking(frames, per_table, all_features):
+    from drift.intake._names import export_name
+
     for (where, _), frame in zip(per_table, frames):
         lacking = [f for f in all_features if f not in frame.columns]
         if lacking:
-            others = next(w for (w, _), fr in zip(per_table, frames) if lacking[0] in fr.columns)
+            others, readings = next((w, rs) for (w, rs), fr in zip(per_table, frames) if lacking[0] in fr.columns)
+            named = [f"{export_name(readings, f) or f} ({f})" if export_name(readings, f) not in (None, f) else f
+                     for f in lacking]
             raise InputError(
-                f"lacks feature column(s) {lacking} that {Path(others).name} has; every season needs "
+                f"lacks feature column(s) {', '.join(named)} that {Path(others).name} has; every season needs "
                 "the same features (add them, or list the shared ones under [intake] features)", file=where)
-    units, unit_notes = harmonise_rates(rate_units)
+
+
+def _harmonise(rate_units, per_table, notes, converted, config):
+    """One unit per rate across tables, then every recognised rate checked against its range."""
+    from drift.intake import _ranges
+    from drift.intake._names import in_export_words
+    from drift.intake._units import harmonise_rates
+
+    readings_of = dict(per_table)
+    try:
+        units, unit_notes, rate_converted = harmonise_rates(rate_units)
+    except InputError as exc:
+        raise in_export_words(exc, readings_of.get(str(exc.file), ())) from None
+    converted.update(rate_converted)
     notes.extend((None, n) for n in unit_notes)
+    canonical = _canonical(config)
+    for frame, where, table_units in rate_units:
+        try:
+            _ranges.check_rates(frame, list(table_units), units, where, int(frame["source_row"].iloc[0]),
+                                canonical=canonical)
+        except InputError as exc:
+            raise in_export_words(exc, readings_of[where]) from None
+    return units
+
+
+def _assemble(files, frames, per_table, all_features, units, notes, converted, forms):
+    import pandas as pd
+
+    from drift.intake._column_table import column_table, emit_notes
+
     keep = [c for c in STANDARD_COLUMNS if any(c in f.columns for f in frames)]
     table = pd.concat([f[[c for c in keep if c in f.columns] + all_features + ["source_file", "source_row"]]
                        for f in frames], ignore_index=True)
     _refuse_repeats(table)
-    from drift.intake._column_table import column_table, emit_notes
-
-    columns = column_table(per_table, units)
+    columns = column_table(per_table, units, converted)
     emit_notes(notes, columns)
     ignored = sorted(set(columns.loc[columns["role"].isin(["ignored", "sample"]), "column"]))
     sources = table.groupby("source_file", sort=False).agg(
         seasons=("season", lambda s: ", ".join(sorted(set(s)))), rows=("player_id", "size")).reset_index()
     sources = sources.rename(columns={"source_file": "file"})
+    sources["read_as"] = sources["file"].map(forms).fillna("")
     return RawSeasons(table=table, features=tuple(all_features), files=tuple(str(f) for f in files),
                       ignored_columns=tuple(ignored), reading=IntakeReading(
                           columns=columns, notes=tuple(n if w is None else f"{w}: {n}" for w, n in notes),
