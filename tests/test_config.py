@@ -111,3 +111,31 @@ def test_replace_ignores_not_given_values_only():
     c = Config(total_marker=None)
     assert c.total_marker is None  # no marker: every row is a team row, never silently "TOT"
     assert c.replace(min_games=None, roles=3) == Config(total_marker=None, roles=3)
+
+
+def test_a_file_saved_with_a_byte_order_mark_reads(tmp_path):
+    p = tmp_path / "c.toml"
+    p.write_bytes("\ufeff[filters]\nmin_games = 15\n".encode("utf-8"))
+    assert load_config(p).min_games == 15
+
+
+def test_csv_separator_and_encoding_are_read_and_checked(tmp_path):
+    p = tmp_path / "c.toml"
+    p.write_text('[intake.csv]\nseparator = "tab"\nencoding = "windows-1252"\n')
+    assert load_config(p).csv == {"separator": "\t", "encoding": "windows-1252"}
+    p.write_text('[intake.csv]\nseparator = "\\t"\n')
+    assert load_config(p).csv == {"separator": "\t"}
+
+
+@pytest.mark.parametrize("text, words", [
+    ('[intake.csv]\nseparator = ":"\n', "separator=':' must be one of"),
+    ('[intake.csv]\nencoding = "klingon"\n', "encoding='klingon' is not an encoding Python knows"),
+    ('[intake.csv]\ndelimiter = ";"\n', "unknown key(s) ['delimiter']"),
+    ('[intake]\ncsv = ";"\n', "[intake] csv must be a table like [intake.csv]"),
+])
+def test_bad_csv_settings_are_refused(tmp_path, text, words):
+    p = tmp_path / "c.toml"
+    p.write_text(text)
+    with pytest.raises(ConfigError) as info:
+        load_config(p)
+    assert words in str(info.value)

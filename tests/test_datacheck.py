@@ -55,3 +55,44 @@ def test_check_says_when_filters_leave_too_few_and_lists_warnings(tmp_path, caps
     assert "the pool has 6 player-seasons; at least 10 are needed" in captured.out
     assert "hustle match no name rule and are used as rate features" in captured.out
     assert "drift: error: a run would not work" in captured.err
+
+
+def test_failing_check_still_shows_how_the_columns_were_read(tmp_path, capsys):
+    from exports import small_league, write_text_export
+
+    league = small_league(seasons=("2023-24",))
+    league.loc[4, "orb_pct"] = 401.0
+    write_text_export(league, tmp_path)
+    code = main(["check", str(tmp_path)])
+    captured = capsys.readouterr()
+    assert code == 2
+    assert "Read so far (the problem below stopped the reading)" in captured.out
+    lines = {ln.split()[0]: ln for ln in captured.out.splitlines() if ln.startswith("  ") and ln.split()}
+    assert "feature: orb_pct" in lines["OREB_PCT"] and "feature: share_spot_up" in lines["SPOTUP_FREQ"]
+    assert "row 6, column 'OREB_PCT' (drift's orb_pct): value 401 is impossible" in captured.err
+
+
+def test_check_lists_combined_rows_and_how_files_were_read(tmp_path, capsys):
+    from exports import small_league, with_combined_rows, write_text_export
+
+    league = with_combined_rows(small_league(seasons=("2023-24",), traded=2), "{n}TM")
+    write_text_export(league, tmp_path, separator=";", encoding="cp1252")
+    code = main(["check", str(tmp_path), "--min-games", "5"])
+    out = capsys.readouterr().out
+    assert code == 0
+    assert "Combined rows: 2 (2 as the sum of his other rows)" in out
+    assert "2TM   as the sum of his other rows" in out
+    assert "text, semicolon-separated, Windows-1252" in out
+    assert "read as semicolon-separated text" in out and "read as Windows-1252 text, not UTF-8" in out
+
+
+def test_check_unit_column_says_per_game_minutes_were_converted(tmp_path, capsys):
+    from exports import small_league, write_text_export
+
+    league = small_league(seasons=("2023-24",))
+    league["minutes"] = (league["minutes"] / league["games"]).round(1)
+    write_text_export(league, tmp_path)
+    main(["check", str(tmp_path)])
+    out = capsys.readouterr().out
+    line = next(ln for ln in out.splitlines() if ln.startswith("  MIN "))
+    assert "per game -> season total" in line

@@ -118,6 +118,21 @@ def _set(path, value):
     return change
 
 
+def _hidden_book(w, tmp):
+    """A workbook whose only data sheet is hidden (a notes sheet is shown)."""
+    import pandas as pd
+    from openpyxl import load_workbook
+
+    path = tmp / "2021-22.xlsx"
+    with pd.ExcelWriter(path) as writer:
+        pd.DataFrame({"About": ["notes"]}).to_excel(writer, sheet_name="Notes", index=False)
+        pd.read_csv(w.folder / "2021-22.csv").to_excel(writer, sheet_name="Data", index=False)
+    book = load_workbook(path)
+    book["Data"].sheet_state = "hidden"
+    book.save(path)
+    return path
+
+
 def _marker_folder(tmp, extra, **marker):
     out = tmp / "out"
     out.mkdir()
@@ -201,6 +216,50 @@ RUN_CASES = [
          r"appears twice"),
     Case("data binary file", lambda w, t: _run(w, t, data=_file(t, "2021-22.xlsx", b"\x00\x01nope")),
          r"cannot read file"),
+    Case("data impossible rate", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct,OREB_PCT\nP1,AAA,50,900,20,401\n")),
+         r"row 2, column 'OREB_PCT' \(drift's orb_pct\): value 401 is impossible: an offensive rebound rate"),
+    Case("data impossible points per possession", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct,SPOTUP_FREQ,SPOTUP_PPP\nP1,AAA,50,900,20,0.3,272\n")),
+         r"column 'SPOTUP_PPP' \(drift's ppp_spot_up\): value 272 is impossible: points per possession"),
+    Case("data impossible games", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,GP,minutes,usage_pct\nP1,AAA,500,900,20\n")),
+         r"column 'GP' \(drift's games\): value 500 is impossible: games must lie between 0 and 120"),
+    Case("data impossible minutes per game", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,10,3000,20\n")),
+         r"value 3000 is impossible: 300.0 minutes per game"),
+    Case("data impossible possessions per minute", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,POSS,usage_pct\nP1,AAA,70,2415,0.99,20\n")),
+         r"column 'POSS' \(drift's possessions\): value 0.99 is impossible: 0.029 possessions per minute beside "
+         r"2415 minutes, below 0.04 .*read per game"),
+    Case("data shares add up far above one", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct,SPOTUP_FREQ,ISO_FREQ,CUT_FREQ\n"
+        "P1,AAA,50,900,20,1.0,1.0,1.0\nP2,AAA,50,900,20,0.9,1.1,1.0\n")),
+         r"play-type shares add up to more than 1 in 2 row\(s\).*read as fractions.*rather than rescale"),
+    Case("data file cut in its last cell", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,50,900,20.51\nP2,AAA,50,900,21.37\n"
+        "P3,AAA,50,900,19.80\nP4,AAA,50,900,2")), r"row 5: the file ends inside its last row"),
+    Case("data quote never closed", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", 'player_id,player,team,games,minutes,usage_pct\nP1,"Ann,AAA,50,900,20\n')),
+         r"row 2: a quote opens a cell that never closes"),
+    Case("data broken utf-8 byte", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", b"player_id,player,team,games,minutes,usage_pct\nP1,R\xc3\xa9my,AAA,50,900,20\n"
+        b"P2,Ann\xff,AAA,50,900,20\n")), r"row 3: is UTF-8 text with a broken byte"),
+    Case("data binary bytes in a text file", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", b"player_id,team\x00\x01,games\n" * 4)), r"is not a text file"),
+    Case("data encrypted workbook", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.xlsx", b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1" + bytes(504) + "EncryptedPackage".encode("utf-16-le"))),
+         r"protected with a password \(encrypted\).*remove the password"),
+    Case("data web page named xls", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.xls", "<html><table><tr><td>player_id</td></tr></table></html>")),
+         r"is a web page or XML file despite its '.xls' name"),
+    Case("data spreadsheet drift cannot read", lambda w, t: _run(w, t, data=_file(t, "2021-22.ods", b"PK\x03\x04")),
+         r"is an OpenDocument spreadsheet, which drift cannot read; save it as .xlsx"),
+    Case("data only hidden sheets", lambda w, t: _run(w, t, data=_hidden_book(w, t)),
+         r"its only data sheet\(s\) \['Data'\] are hidden"),
+    Case("data misspelt required column", lambda w, t: _run(w, t, data=_file(
+        t, "2021-22.csv", "player_id,TEAM_ABREVIATION,games,minutes,usage_pct\nP1,AAA,50,900,20\n")),
+         r"missing required column\(s\) \['team'\]; did you mean TEAM_ABREVIATION \(for team\)\?"),
     Case("data file given twice", lambda w, t: ["run", str(w.one_file), str(w.one_file), "--out", str(t / "o")],
          r"is given twice"),
     Case("data file and its folder", lambda w, t: ["run", str(w.folder), str(w.folder / "2021-22.csv"),
@@ -316,6 +375,16 @@ CONFIG_CASES = [
          r"no numeric feature"),
     Case("config total_marker number", lambda w, t: _config(w, t, "[intake]\ntotal_marker = 5\n"),
          r"total_marker"),
+    Case("config csv separator unknown", lambda w, t: _config(w, t, '[intake.csv]\nseparator = ":"\n'),
+         r"separator=':' must be one of"),
+    Case("config csv encoding unknown", lambda w, t: _config(w, t, '[intake.csv]\nencoding = "klingon"\n'),
+         r"encoding='klingon' is not an encoding Python knows"),
+    Case("config csv unknown key", lambda w, t: _config(w, t, '[intake.csv]\ndelimiter = ";"\n'),
+         r"unknown key\(s\) \['delimiter'\]"),
+    Case("config csv encoding wrong for the file", lambda w, t: _run(
+        w, t, "--config", str(_file(t, "c.toml", '[intake.csv]\nencoding = "utf-8"\n')), data=_file(
+            t, "2021-22.csv", "player_id,team,games,minutes,usage_pct\nP1,AAA,50,900,20\n".encode("utf-16"))),
+         r"row 1: is not valid utf-8 text \(byte 0\); fix \[intake.csv\] encoding"),
     Case("config role name not text", lambda w, t: _config(w, t, "[roles.names]\nR1 = 3\n"), r"R1"),
     Case("config roles table wrong", lambda w, t: _config(w, t, "[roles]\nnames = 'x'\n"), r"names"),
 ]

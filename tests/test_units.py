@@ -95,3 +95,26 @@ def test_rates_whose_unit_cannot_be_told_are_refused(tmp_path):
         _write(tmp_path, block, s)
     with pytest.raises(InputError, match=r"do not say which is right.*\[intake.units\] usage_pct"):
         read_seasons(tmp_path)
+
+
+@pytest.mark.parametrize("scale, unit, shown", [(1.0, "fractions", "(3.00)"), (100.0, "percent", "(300.00%)")])
+def test_shares_adding_up_to_three_are_refused_never_rescaled(tmp_path, scale, unit, shown):
+    t = _shares()
+    t["share_iso"] = 1.0
+    t["share_post"] = 1.0  # columns read as shares that are not parts of one whole: rows add to 3
+    t[["share_spot_up", "share_cut", "share_iso", "share_post"]] *= scale
+    with pytest.raises(InputError) as info:
+        read_seasons(_write(tmp_path, t))
+    msg = str(info.value)
+    assert f"row 2: play-type shares add up to more than 1 in 6 row(s): row 2 {shown}" in msg
+    assert f"read as {unit}" in msg and "rather than rescale" in msg
+
+
+def test_per_game_minutes_show_their_unit_after_conversion(tmp_path):
+    t = small_table(seasons=("2024-25",))
+    t["minutes"] = t["minutes"] / t["games"]
+    with pytest.warns(DataQualityWarning, match="minutes per game, multiplied by games"):
+        raw = read_seasons(_write(tmp_path, t))
+    columns = raw.reading.columns.set_index("column")
+    assert columns.loc["minutes", "unit"] == "per game -> season total"
+    assert columns.loc["games", "unit"] == "season total"

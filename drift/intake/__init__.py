@@ -9,11 +9,13 @@ Out
     player-season, stints of traded players, kept and excluded rows with reasons,
     the feature families in :class:`FeatureSpec`).
 
-Steps: read the files (``_readers``, ``_workbooks``, ``_rawtables``), parse cells
-(``_cells``), understand column names (``columns``), harmonise units (``units``),
-combine stints (``_stints``), fill unused shares and filter (``features``). The
-pre-fit checks (``preflight``) refuse settings the data cannot honour, and the dry
-run (``dry_run``) is ``drift check``: intake and filters, no fit.
+Steps: read the files (``_readers`` tells them apart by their bytes; ``_text`` decodes
+and checks delimited text; ``_workbooks`` reads Excel; ``_rawtables``), parse cells
+(``_cells``), understand column names (``columns``; messages in the export's words and
+the closest names in ``_names``), harmonise units (``units``), refuse impossible values
+(``_ranges``), find combined rows and combine stints (``_stints``), fill unused shares
+and filter (``features``). The pre-fit checks (``preflight``) refuse settings the data
+cannot honour, and the dry run (``dry_run``) is ``drift check``: intake and filters, no fit.
 """
 
 from drift.intake.dry_run import DataCheck, check_data, format_check

@@ -35,8 +35,8 @@ def _closest(wanted, names, taken):
     return [name for _, name in sorted(scored)[:2]]
 
 
-def did_you_mean(missing, names, taken=()) -> str:
-    """``"; did you mean TEAM_ABREVIATION (for team)? map it: [columns] team = "TEAM_ABREVIATION""``, or ``""``.
+def did_you_mean(missing, names, taken=()):
+    """(``"did you mean TEAM_ABREVIATION (for team)?"``, ``'team = "TEAM_ABREVIATION"'``), or ``("", "")``.
 
     ``names``: the export's column names; ``taken``: those already read as one of drift's columns.
     """
@@ -47,8 +47,8 @@ def did_you_mean(missing, names, taken=()) -> str:
             hints.append(f"{' or '.join(close)} (for {wanted})")
             maps.append(f'{wanted} = "{close[0]}"')
     if not hints:
-        return ""
-    return f"; did you mean {', '.join(hints)}? If so map it in the config: [columns] {', '.join(maps)}"
+        return "", ""
+    return f"did you mean {', '.join(hints)}?", ", ".join(maps)
 
 
 def export_name(readings, name):
@@ -110,12 +110,16 @@ def require_columns(readings, frame, table, config):
                          f"such column{close}; fix the name in [columns] (columns here: {', '.join(cols[:12])})",
                          file=where)
     if missing:
-        hint = ", ".join(f'{m} = "..."' for m in missing)
         found = ", ".join(cols[:12]) + (", ..." if len(cols) > 12 else "")
-        close = did_you_mean(missing, cols, taken={r.source for r in readings if r.role == "standard"})
+        close, mapping = did_you_mean(missing, cols, taken={r.source for r in readings if r.role == "standard"})
+        if close:
+            raise InputError(f"missing required column(s) {missing}; {close} If so, rename it or map it in the "
+                             f"config: [columns] {mapping} (found {found})", file=where)
+        separator = ""
         if len(cols) == 1 and any(sep in cols[0] for sep in ";:|\t,"):
-            close += ("; the header reads as one column: if the file uses another separator, name it in the "
-                      "config: [intake.csv] separator")
+            separator = ("; the header reads as one column: if the file uses another separator, name it in the "
+                         "config: [intake.csv] separator")
+        hint = ", ".join(f'{m} = "..."' for m in missing)
         raise InputError(
-            f"missing required column(s) {missing}{close}; found {found}. "
+            f"missing required column(s) {missing}{separator}; found {found}. "
             f"Rename them or map them in the config's [columns] table ({hint})", file=where)

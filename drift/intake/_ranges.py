@@ -64,6 +64,7 @@ def fraction_max(name: str) -> float:
 
 
 def _refuse(values, bad, what, where, first_row, column, extra=""):
+    """Refuse the first bad row, showing ``values`` (the cell as written: per game where it was)."""
     import numpy as np
 
     idx = np.flatnonzero(bad)
@@ -71,6 +72,15 @@ def _refuse(values, bad, what, where, first_row, column, extra=""):
     more = f" (and {len(idx) - 1} more row(s))" if len(idx) > 1 else ""
     raise InputError(f"value {values[i]:g} is impossible: {what}{more}{extra}; fix the cell (the range is common "
                      "practice, see docs/input.md)", file=where, row=first_row + i, column=column)
+
+
+def _as_written(values, games, column, converted):
+    """The cells as the export wrote them: per game again for a column converted to season totals."""
+    import numpy as np
+
+    if converted.get(column) != "per game":
+        return values
+    return np.divide(values, games, out=np.zeros_like(values), where=games > 0)
 
 
 def check_present(frame, where, first_row):
@@ -100,36 +110,38 @@ def check_counts(frame, where, first_row, converted):
                 first_row, "games")
     per_game = np.divide(minutes, games, out=np.zeros_like(minutes), where=games > 0)
     note = " (minutes were read per game and multiplied by games)" if "minutes" in converted else ""
+    shown = _as_written(minutes, games, "minutes", converted)
     if ((games == 0) & (minutes > 0)).any():
-        _refuse(minutes, (games == 0) & (minutes > 0), "minutes without a game played", where, first_row,
+        _refuse(shown, (games == 0) & (minutes > 0), "minutes without a game played", where, first_row,
                 "minutes", note)
     if (per_game > MAX_MINUTES_PER_GAME).any():
         bad = per_game > MAX_MINUTES_PER_GAME
         i = int(np.flatnonzero(bad)[0])
-        _refuse(minutes, bad, f"{per_game[i]:.1f} minutes per game over {games[i]:g} games, above "
+        _refuse(shown, bad, f"{per_game[i]:.1f} minutes per game over {games[i]:g} games, above "
                 f"{MAX_MINUTES_PER_GAME:g}", where, first_row, "minutes", note)
     if "possessions" in frame.columns:
-        _check_possessions(frame["possessions"].to_numpy(float), minutes, where, first_row, converted)
+        _check_possessions(frame["possessions"].to_numpy(float), minutes, games, where, first_row, converted)
 
 
-def _check_possessions(poss, minutes, where, first_row, converted):
+def _check_possessions(poss, minutes, games, where, first_row, converted):
     import numpy as np
 
     low, high = POSSESSIONS_PER_MINUTE
     note = " (possessions were read per game and multiplied by games)" if "possessions" in converted else ""
     finite = np.isfinite(poss)
+    shown = _as_written(poss, games, "possessions", converted)
     if (finite & (poss < 0)).any():
-        _refuse(poss, finite & (poss < 0), "possessions cannot be negative", where, first_row, "possessions")
+        _refuse(shown, finite & (poss < 0), "possessions cannot be negative", where, first_row, "possessions")
     rate = np.divide(poss, minutes, out=np.full_like(poss, np.nan), where=minutes > 0)
     over = finite & (((minutes == 0) & (poss > 0)) | ((minutes >= RATE_CHECK_MINUTES) & (rate > high)))
     if over.any():
-        _refuse(poss, over, f"more than {high:g} possessions per minute played", where, first_row, "possessions",
+        _refuse(shown, over, f"more than {high:g} possessions per minute played", where, first_row, "possessions",
                 note)
     under = finite & (minutes >= LOW_POSSESSIONS_FROM) & (rate < low)
     if under.any():
         i = int(np.flatnonzero(under)[0])
         hint = note or ' (if the column is per game, say so: [intake.units] possessions = "per_game")'
-        _refuse(poss, under, f"{rate[i]:.3f} possessions per minute beside {minutes[i]:g} minutes, below {low:g} "
+        _refuse(shown, under, f"{rate[i]:.3f} possessions per minute beside {minutes[i]:g} minutes, below {low:g} "
                 "(a usage rate near 2 %)", where, first_row, "possessions", hint)
 
 

@@ -100,8 +100,8 @@ def _read_by_content(path: Path, kind: str, suffix: str, *, text_columns, recogn
         raise InputError(f"is a web page or XML file {named}, not an Excel workbook; open it in Excel and "
                          "save it as .xlsx (Excel Workbook), or export the table as CSV", file=path)
     if suffix != ".xls":
-        raise InputError("cannot read file (it is not an Excel workbook: it holds plain text); check it opens and "
-                         "is not corrupt", file=path)
+        raise InputError("cannot read file (it is not an Excel workbook); check it opens and is not corrupt",
+                         file=path)
     try:  # web exports often write tab-separated text under an .xls name
         return _read_csv(path, text_columns, csv, raw=raw, said=(f"is text {named}; read as delimited text",))
     except InputError as exc:

@@ -15,10 +15,12 @@ Per table (:func:`table_units`):
   whose values are per game but for a few (nine in ten at most 60) has impossible
   cells: they are refused, naming the first.
 * **Games** must be whole numbers (an average is refused).
-* **Rates** (``*_pct``, ``*_rate``): a table is in percent when a value passes the
-  largest the rate can hold as a fraction (1; 1.5 for true shooting and effective
-  field-goal percentage, 5 for the free-throw rate; :mod:`drift.intake._ranges`),
-  else in fractions.
+* **Rates** (``*_pct``, ``*_rate``): a table is in percent when its typical value,
+  or one value in ten, passes the largest the rate can hold as a fraction (1; 1.5 for
+  true shooting and effective field-goal percentage, 5 for the free-throw rate;
+  :mod:`drift.intake._ranges`), else in fractions, so one broken cell does not turn a
+  column of fractions into percent (it is refused by its range). A rate drift does
+  not know is in percent when any value passes 1.
 
 Across tables (:func:`harmonise_rates`): every season of a rate must share one unit;
 a minority in the other unit is converted when its median lands within a factor 3
@@ -123,6 +125,23 @@ def _per_game(frame, column, limit, where, units, first_row):
     return f"{column} per game, multiplied by games to season totals"
 
 
+def _looks_percent(values, name):
+    """A rate column in percent: any value above 1 for a rate drift does not know; for a recognised
+    one, a typical value, or one in ten, above the most it can hold as a fraction (a fraction column
+    with a broken cell stays in fractions, and the cell is refused by its range)."""
+    import numpy as np
+
+    from drift.intake._ranges import RATE_RANGES, fraction_max
+
+    finite = np.abs(values[np.isfinite(values)])
+    if not len(finite):
+        return False
+    top = fraction_max(name)
+    if name not in RATE_RANGES:
+        return bool(finite.max() > top)
+    return bool(np.median(finite) > top or np.mean(finite > top) >= 0.1)
+
+
 def table_units(frame, features, families, where, *, first_row=2, how=None, units=None, canonical=None):
     """Check and convert one table's units in place; returns (notes, rate units, converted).
 
@@ -133,8 +152,6 @@ def table_units(frame, features, families, where, *, first_row=2, how=None, unit
     table gave it in, for every column converted (``"per game"``, ``"percent"``).
     """
     import numpy as np
-
-    from drift.intake._ranges import fraction_max
 
     how, units, canonical = how or {}, units or {}, canonical or {}
     games = frame["games"].to_numpy(float)
@@ -157,8 +174,7 @@ def table_units(frame, features, families, where, *, first_row=2, how=None, unit
             values = frame[f].to_numpy(float)
             if f in units:
                 rate_units[f] = units[f]
-            elif how.get(f) == "percent strings" or np.nanmax(np.abs(values), initial=0.0) > fraction_max(
-                    canonical.get(f, f)):
+            elif how.get(f) == "percent strings" or _looks_percent(values, canonical.get(f, f)):
                 rate_units[f] = "percent"
             else:
                 rate_units[f] = "fraction"

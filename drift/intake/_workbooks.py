@@ -20,16 +20,23 @@ __all__ = ["read_workbook"]
 
 
 def _header_row(rows, required, recognise):
-    """(index of the header row, what it lacks at best) in the sheet's first rows."""
-    best = (None, sorted(required))
+    """(index of the header row, what it lacks at best) in the sheet's first rows.
+
+    When no row names every required column, what the best row lacks comes with the
+    export's closest names (``lacks ['team'] (did you mean TEAM_ABREVIATION ...)``).
+    """
+    from drift.intake._names import did_you_mean
+
+    best, best_names = sorted(required), []
     for i, row in enumerate(rows[:MAX_HEADER_ROW]):
         names = [str(v).strip() for v in row if v is not None and str(v).strip() and str(v) != "nan"]
         lacking = sorted(set(required) - recognise(names))
         if not lacking:
             return i, []
-        if len(lacking) < len(best[1]):
-            best = (None, lacking)
-    return best
+        if len(lacking) < len(best):
+            best, best_names = lacking, names
+    close, _ = did_you_mean(best, best_names)
+    return None, f"{best} ({close})" if close else best
 
 
 def _table(raw, header_at, where):
@@ -62,34 +69,73 @@ def _table(raw, header_at, where):
     return frame.reset_index(drop=True)
 
 
-def _sheets(xl, engine):
-    """Every sheet's name and whether it is shown (hidden and 'very hidden' sheets are not)."""
-    book = xl.book
-    if engine == "xlrd":
-        return {sh.name: sh.visibility == 0 for sh in book.sheets()}
-    return {ws.title: getattr(ws, "sheet_state", "visible") == "visible" for ws in book.worksheets}
+def _xls_cell(cell, xlrd):
+    kind = cell.ctype
+    if kind in (xlrd.XL_CELL_EMPTY, xlrd.XL_CELL_BLANK):
+        return None
+    if kind == xlrd.XL_CELL_ERROR:  # '#N/A' and the like: an empty marker like any other
+        return xlrd.error_text_from_code.get(cell.value, "#N/A")
+    return cell.value
 
 
-def _open(path, engine):
-    import pandas as pd
+class _Book:
+    """A workbook's sheet names, which are shown, and each sheet as a frame of cells (header=None).
 
+    ``.xlsx`` goes through pandas and openpyxl; ``.xls`` through xlrd directly (pandas is
+    retiring its xlrd engine), its cells typed the same way (empty -> None, errors -> their text).
+    """
+
+    def __init__(self, path, engine):
+        self.path, self.engine = path, engine
+        if engine == "xlrd":
+            try:
+                import xlrd
+            except ImportError:
+                raise InputError("reading .xls workbooks needs xlrd: pip install xlrd (or save the file as "
+                                 ".xlsx)", file=path) from None
+            self._xlrd = xlrd
+            self.book = _refusing_encrypted(lambda: xlrd.open_workbook(str(path), on_demand=True), path)
+            self.names = list(self.book.sheet_names())
+            self.shown = {n: self.book.sheet_by_name(n).visibility == 0 for n in self.names}
+        else:
+            import pandas as pd
+
+            self.book = _refusing_encrypted(lambda: pd.ExcelFile(path, engine=engine), path)
+            self.names = list(self.book.sheet_names)
+            self.shown = {ws.title: getattr(ws, "sheet_state", "visible") == "visible"
+                          for ws in self.book.book.worksheets}
+
+    def sheet(self, name):
+        import pandas as pd
+
+        if self.engine != "xlrd":
+            return pd.read_excel(self.book, sheet_name=name, header=None, dtype=object)
+        sheet = self.book.sheet_by_name(name)
+        rows = [[_xls_cell(c, self._xlrd) for c in sheet.row(i)] for i in range(sheet.nrows)]
+        return pd.DataFrame(rows, dtype=object)
+
+    def close(self):
+        if self.engine == "xlrd":
+            self.book.release_resources()
+        else:
+            self.book.close()
+
+
+def _refusing_encrypted(open_book, path):
     try:
-        return pd.ExcelFile(path, engine=engine)
-    except ImportError:
-        raise InputError("reading .xls workbooks needs xlrd: pip install xlrd (or save the file as .xlsx)",
-                         file=path) from None
+        return open_book()
+    except InputError:
+        raise
     except Exception as exc:
         if "encrypt" in str(exc).lower():  # xlrd: "Workbook is encrypted"
             raise InputError(ENCRYPTED_MESSAGE, file=path) from None
         raise
 
 
-def _data_sheets(xl, names, required, recognise):
-    import pandas as pd
-
+def _data_sheets(book, names, required, recognise):
     found, skipped = [], {}
     for name in names:
-        raw = pd.read_excel(xl, sheet_name=name, header=None, dtype=object)
+        raw = book.sheet(name)
         raw = raw.astype(object).where(raw.notna(), None)
         at, lacking = _header_row(raw.values.tolist(), required, recognise)
         if at is None:
@@ -105,21 +151,23 @@ def read_workbook(path: Path, *, required, sheet=None, recognise, engine="openpy
     ``engine``: ``"openpyxl"`` (``.xlsx``) or ``"xlrd"`` (``.xls``); ``said``: notes the caller
     adds to every table (what the file turned out to be).
     """
-    with _open(path, engine) as xl:
-        shown = _sheets(xl, engine)
-        names = list(xl.sheet_names)
+    book = _Book(path, engine)
+    try:
+        names = book.names
         if sheet is not None:
             if sheet not in names:
                 raise InputError(f"has no sheet {sheet!r} (config [intake] sheet); its sheets: {names}",
                                  file=path)
             names, hidden = [sheet], []
         else:
-            hidden = [n for n in names if not shown.get(n, True)]
-            names = [n for n in names if shown.get(n, True)]
-        found, skipped = _data_sheets(xl, names, required, recognise)
-        if not found and hidden and _data_sheets(xl, hidden, required, recognise)[0]:
+            hidden = [n for n in names if not book.shown.get(n, True)]
+            names = [n for n in names if book.shown.get(n, True)]
+        found, skipped = _data_sheets(book, names, required, recognise)
+        if not found and hidden and _data_sheets(book, hidden, required, recognise)[0]:
             raise InputError(f"its only data sheet(s) {hidden} are hidden; unhide the one to read, or name it "
                              "with [intake] sheet", file=path)
+    finally:
+        book.close()
     if hidden:
         said = tuple(said) + (f"hidden sheet(s) {', '.join(repr(n) for n in hidden)} skipped (name one with "
                               "[intake] sheet to read it)",)
