@@ -193,42 +193,67 @@ def _looks_cut(cell: str, others: list):
     return None
 
 
+def _shape(records, where):
+    """(header, the last column's cells of the data rows, the last row's number), streaming the records.
+
+    Only one column is kept in memory: a long file is checked in one pass without a copy of
+    every cell.
+    """
+    header, last_cells, width = None, [], 0
+    blank_at, bad, last = None, None, 0
+    for i, record in enumerate(records, start=1):
+        if _blank(record):
+            blank_at = blank_at or i
+            continue
+        if header is None:
+            header, width, last = record, len(record), i
+            continue
+        if blank_at is not None or bad is not None:
+            row, n = (blank_at, 0) if blank_at is not None and (bad is None or blank_at < bad[0]) else bad
+            _refuse_width(row, n, width, False, where)
+        if len(record) != width:
+            bad = (i, len(record))
+        else:
+            last_cells.append(record[-1])
+        last = i
+    if header is None:
+        raise InputError("file is empty; remove it or add its season's rows", file=where)
+    if bad is not None:
+        _refuse_width(bad[0], bad[1], width, True, where)
+    return header, last_cells, last
+
+
+def _refuse_width(row, n, width, is_last, where):
+    cut = " (the last row: is the file cut short?)" if is_last else ""
+    what = "is empty" if n == 0 else f"has {n} fields where the header has {width}"
+    raise InputError(f"row {what}{cut}; every row needs one value per column (leave a cell empty, not missing)",
+                     file=where, row=row)
+
+
 def check_records(text: str, separator: str, where):
     """Refuse rows of the wrong width, blank rows inside, a quote left open and a cut last row.
 
     Returns the header's names.
     """
     try:
-        records = list(csv.reader(io.StringIO(text, newline=""), delimiter=separator, strict=True))
+        header, last_cells, last = _shape(csv.reader(io.StringIO(text, newline=""), delimiter=separator,
+                                                     strict=True), where)
     except csv.Error as exc:
-        if "unexpected end of data" not in str(exc):
-            records = _records(text, separator)  # a stray quote inside a cell: read as pandas reads it
-        else:
-            done = len(_records(text, separator)) if text else 0
+        if "unexpected end of data" in str(exc):
+            done = sum(1 for _ in csv.reader(io.StringIO(text, newline=""), delimiter=separator))
             raise InputError("a quote opens a cell that never closes before the file ends (the file is cut "
                              "short, or a closing quote is missing); fix the quotes or export the file again",
                              file=where, row=max(done, 1)) from None
-    while records and _blank(records[-1]):
-        records.pop()
-    if not records:
-        raise InputError("file is empty; remove it or add its season's rows", file=where)
-    width = len(records[0])
-    last = len(records)
-    for i, record in enumerate(records[1:], start=2):
-        n = 0 if _blank(record) else len(record)
-        if n != width:
-            cut = " (the last row: is the file cut short?)" if i == last else ""
-            what = "is empty" if n == 0 else f"has {n} fields where the header has {width}"
-            raise InputError(f"row {what}{cut}; every row needs one value per column (leave a cell empty, not "
-                             "missing)", file=where, row=i)
-    if last > 1 and not text.rstrip(" \t\x1a").endswith(("\n", "\r")):
-        why = _looks_cut(records[-1][-1], [r[-1] for r in records[1:-1]])
+        # a stray quote inside a cell ('12"5'): read as pandas reads it
+        header, last_cells, last = _shape(csv.reader(io.StringIO(text, newline=""), delimiter=separator), where)
+    if last_cells and not text.rstrip(" \t\x1a").endswith(("\n", "\r")):
+        why = _looks_cut(last_cells[-1], last_cells[:-1])
         if why:
             raise InputError(
                 f"the file ends inside its last row: there is no line break after it and its last cell "
-                f"{records[-1][-1]!r} (column {records[0][-1].strip()!r}) {why}, so the file looks cut short; "
+                f"{last_cells[-1]!r} (column {header[-1].strip()!r}) {why}, so the file looks cut short; "
                 "export it again (if it is whole, end it with a line break)", file=where, row=last)
-    return [str(c) for c in records[0]]
+    return [str(c) for c in header]
 
 
 def read_delimited(path, *, separator=None, encoding=None, raw=None):
