@@ -54,6 +54,28 @@ def test_minutes_per_game_above_a_game_with_overtimes_are_refused(league, tmp_pa
     assert "row 5, column 'MIN' (drift's minutes): value 3000 is impossible: 300.0 minutes per game" in msg
 
 
+def test_one_long_overtime_game_is_possible(league, tmp_path):
+    league.loc[3, ["games", "minutes", "possessions"]] = [1, 63, 20]  # every minute of a triple overtime
+    write_text_export(league, tmp_path)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        assert read_seasons(tmp_path).table.loc[3, "minutes"] == 63
+
+
+def test_free_throw_rate_is_checked_only_on_a_real_sample(tmp_path):
+    league = small_league(seasons=("2023-24",))
+    league["ft_rate"] = 0.25
+    league.loc[2, ["games", "minutes", "possessions", "ft_rate"]] = [2, 30, 10, 8.0]  # 1 shot, 8 free throws
+    write_text_export(league, tmp_path)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        raw = read_seasons(tmp_path)
+    assert raw.reading.units["ft_rate"] == "fraction" and raw.table.loc[2, "ft_rate"] == 8.0
+    league.loc[5, "ft_rate"] = 8.0  # the same over a season's minutes: impossible
+    write_text_export(league, tmp_path)
+    assert "row 7, column 'ft_rate': value 8 is impossible: a free-throw rate lies between 0 and 5" in _error(tmp_path)
+
+
 def test_minutes_without_games_are_refused(league, tmp_path):
     league.loc[3, "games"] = 0
     write_text_export(league, tmp_path)

@@ -156,3 +156,23 @@ def test_cut_last_cell_among_fixed_decimals_is_caught_however_it_is_cut(league, 
     for cut in range(1, 6):  # '0.5321' -> '0.532', '0.53', '0.5', '0.', '0'
         path.write_text(text[:-cut], encoding="utf-8")
         assert "looks cut short" in _error(tmp_path), cut
+
+
+def test_windows_1252_with_a_byte_pair_that_looks_like_utf8_is_still_windows_1252(league, tmp_path):
+    table = league.copy()
+    table.loc[0, "player"] = "LÉ’Varton"  # 0xC9 0x92 in Windows-1252: a valid UTF-8 pair by chance
+    write_text_export(table, tmp_path, encoding="cp1252")
+    raw, said = _read(tmp_path)
+    assert raw.table.loc[0, "player"] == "LÉ’Varton" and "Rémy Varton" in set(raw.table["player"])
+    assert any("read as Windows-1252 text" in s for s in said)
+
+
+def test_unnamed_columns_are_dropped_when_empty_and_refused_when_not(league, expected, tmp_path):
+    path = write_text_export(league, tmp_path)[0]
+    lines = path.read_text(encoding="utf-8").splitlines()
+    path.write_text("\n".join(line + "," for line in lines) + "\n", encoding="utf-8")  # a trailing separator
+    raw, _ = _read(tmp_path)
+    pd.testing.assert_frame_equal(raw.table.drop(columns="source_file"), expected)
+    lines = [line + ("," if i != 3 else ",7") for i, line in enumerate(lines)]
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    assert "column 15 has values but no name" in _error(tmp_path)

@@ -8,8 +8,9 @@ the range.
 
 * **Games**: whole numbers from 0 to :data:`MAX_GAMES` (no league's season, playoffs included,
   comes near 120 games).
-* **Minutes**: none without a game, and at most :data:`MAX_MINUTES_PER_GAME` per game (a
-  48-minute game plus overtimes; no season averages more).
+* **Minutes**: none without a game, and at most :data:`MAX_MINUTES_PER_GAME` per game over
+  three games or more (a 48-minute game plus overtimes; no season averages more), at most
+  :data:`MAX_MINUTES_ONE_GAME` over one or two (the longest games on record, six overtimes).
 * **Possessions**: at most :data:`POSSESSIONS_PER_MINUTE` ``[1]`` per minute (a team plays
   about 2.1 possessions a minute; 3 leaves room for the fastest pace); from
   :data:`LOW_POSSESSIONS_FROM` minutes, at least ``[0]`` per minute (a usage rate near 2 %:
@@ -21,7 +22,8 @@ the range.
   shot is every shot a made three); free-throw rate 0-500 (free throws per field-goal attempt,
   about 0-1 for a season). Rates whose denominators are estimates (usage, assist, rebound,
   steal, block) can leave their range in a few minutes of play, so they are checked on rows
-  with at least :data:`RATE_CHECK_MINUTES` minutes (a game's worth).
+  with at least :data:`RATE_CHECK_MINUTES` minutes (a game's worth); the free-throw rate,
+  which a handful of shots can push anywhere, from :data:`LOW_POSSESSIONS_FROM` minutes.
 
 Play-type shares are checked with their units (:mod:`drift.intake._units`).
 """
@@ -30,30 +32,31 @@ from __future__ import annotations
 
 from drift.errors import InputError
 
-__all__ = ["MAX_GAMES", "MAX_MINUTES_PER_GAME", "POSSESSIONS_PER_MINUTE", "LOW_POSSESSIONS_FROM", "PPP_RANGE",
+__all__ = ["MAX_GAMES", "MAX_MINUTES_PER_GAME", "MAX_MINUTES_ONE_GAME", "POSSESSIONS_PER_MINUTE", "LOW_POSSESSIONS_FROM", "PPP_RANGE",
            "RATE_RANGES", "RATE_CHECK_MINUTES", "check_present", "check_counts", "check_efficiencies", "check_rates",
            "fraction_max"]
 
 MAX_GAMES = 120
 MAX_MINUTES_PER_GAME = 60.0
+MAX_MINUTES_ONE_GAME = 75.0
 POSSESSIONS_PER_MINUTE = (0.04, 3.0)
 LOW_POSSESSIONS_FROM = 250.0
 PPP_RANGE = (0.0, 4.0)
 RATE_CHECK_MINUTES = 48.0
-#: drift's name -> (low, high in percent, what it is, estimated denominator?)
+#: drift's name -> (low, high in percent, what it is, checked on rows with at least this many minutes)
 RATE_RANGES = {
-    "usage_pct": (0.0, 100.0, "a usage rate", True),
-    "ast_pct": (0.0, 100.0, "an assist rate", True),
-    "orb_pct": (0.0, 100.0, "an offensive rebound rate", True),
-    "drb_pct": (0.0, 100.0, "a defensive rebound rate", True),
-    "trb_pct": (0.0, 100.0, "a rebound rate", True),
-    "stl_pct": (0.0, 100.0, "a steal rate", True),
-    "blk_pct": (0.0, 100.0, "a block rate", True),
-    "tov_pct": (0.0, 100.0, "a turnover rate", False),
-    "three_pa_rate": (0.0, 100.0, "a three-point attempt rate", False),
-    "ts_pct": (0.0, 150.0, "a true shooting percentage", False),
-    "efg_pct": (0.0, 150.0, "an effective field-goal percentage", False),
-    "ft_rate": (0.0, 500.0, "a free-throw rate", False),
+    "usage_pct": (0.0, 100.0, "a usage rate", RATE_CHECK_MINUTES),
+    "ast_pct": (0.0, 100.0, "an assist rate", RATE_CHECK_MINUTES),
+    "orb_pct": (0.0, 100.0, "an offensive rebound rate", RATE_CHECK_MINUTES),
+    "drb_pct": (0.0, 100.0, "a defensive rebound rate", RATE_CHECK_MINUTES),
+    "trb_pct": (0.0, 100.0, "a rebound rate", RATE_CHECK_MINUTES),
+    "stl_pct": (0.0, 100.0, "a steal rate", RATE_CHECK_MINUTES),
+    "blk_pct": (0.0, 100.0, "a block rate", RATE_CHECK_MINUTES),
+    "tov_pct": (0.0, 100.0, "a turnover rate", 0.0),  # exact shares of events: any sample
+    "three_pa_rate": (0.0, 100.0, "a three-point attempt rate", 0.0),
+    "ts_pct": (0.0, 150.0, "a true shooting percentage", 0.0),
+    "efg_pct": (0.0, 150.0, "an effective field-goal percentage", 0.0),
+    "ft_rate": (0.0, 500.0, "a free-throw rate", LOW_POSSESSIONS_FROM),
 }
 
 
@@ -114,11 +117,12 @@ def check_counts(frame, where, first_row, converted):
     if ((games == 0) & (minutes > 0)).any():
         _refuse(shown, (games == 0) & (minutes > 0), "minutes without a game played", where, first_row,
                 "minutes", note)
-    if (per_game > MAX_MINUTES_PER_GAME).any():
-        bad = per_game > MAX_MINUTES_PER_GAME
+    limit = np.where(games >= 3, MAX_MINUTES_PER_GAME, MAX_MINUTES_ONE_GAME)
+    if (per_game > limit).any():
+        bad = per_game > limit
         i = int(np.flatnonzero(bad)[0])
         _refuse(shown, bad, f"{per_game[i]:.1f} minutes per game over {games[i]:g} games, above "
-                f"{MAX_MINUTES_PER_GAME:g}", where, first_row, "minutes", note)
+                f"{limit[i]:g}", where, first_row, "minutes", note)
     if "possessions" in frame.columns:
         _check_possessions(frame["possessions"].to_numpy(float), minutes, games, where, first_row, converted)
 
@@ -171,10 +175,10 @@ def check_rates(frame, names, units, where, first_row, *, canonical):
         known = RATE_RANGES.get(canonical.get(name, name))
         if known is None or name not in units:
             continue
-        low, high, what, estimated = known
+        low, high, what, from_minutes = known
         scale = 1.0 if units[name] == "percent" else 0.01
         values = frame[name].to_numpy(float)
-        checked = np.isfinite(values) & ((minutes >= RATE_CHECK_MINUTES) if estimated else True)
+        checked = np.isfinite(values) & (minutes >= from_minutes)
         bad = checked & ((values < low * scale) | (values > high * scale))
         if bad.any():
             unit = "percent" if units[name] == "percent" else "fractions"

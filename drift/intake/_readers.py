@@ -51,6 +51,13 @@ def _read_csv(path: Path, text_columns, csv_format, *, raw=None, said=()):
     dtypes = {name: str for name in names if name in text_columns}
     frame = pd.read_csv(io.StringIO(text), sep=form.separator, header=0, names=names, dtype=dtypes,
                         keep_default_na=False, na_values=markers, skipinitialspace=True)
+    unnamed = [j for j, name in enumerate(names) if not name]
+    for j in unnamed:  # a trailing separator gives an empty, unnamed column: dropped; one with values refused
+        if frame.iloc[:, j].notna().any():
+            raise InputError(f"column {j + 1} has values but no name in the header row; give it a name or "
+                             "delete it", file=path)
+    if unnamed:
+        frame = frame.iloc[:, [j for j in range(len(names)) if j not in unnamed]]
     return [RawTable(frame, str(path), 2, *season_label(path.stem), form=form.describe(),
                      said=tuple(said) + form.said())]
 

@@ -2,9 +2,9 @@
 
 * **Encoding** (:func:`decode`): the config's ``[intake.csv] encoding`` when given; else a
   byte-order mark (UTF-8, UTF-16, UTF-32); else UTF-16 without a mark when every other byte
-  of the start is zero; else UTF-8; else Windows-1252 when no byte sequence of the file is
-  UTF-8 (a UTF-8 file with one broken byte is refused at that row, never read as another
-  encoding, which would garble every accented name).
+  of the start is zero; else UTF-8; else Windows-1252, unless most of the file's non-ASCII
+  bytes form UTF-8 sequences: then it is a UTF-8 file with a broken byte, refused at that
+  row, never read as another encoding (which would garble every accented name).
 * **Separator** (:func:`sniff_separator`): ``[intake.csv] separator`` when given; else, of
   comma, semicolon, tab and bar, the one that splits the header into two or more names and
   the most of the first rows into as many fields (ties go to the comma).
@@ -56,7 +56,7 @@ class TextFormat:
     detected_encoding: bool
 
     def describe(self) -> str:
-        """``"CSV, ';' separated, Windows-1252"``: what ``drift check`` lists per file."""
+        """``"text, semicolon-separated, Windows-1252"``: what ``drift check`` lists per file."""
         return f"text, {SEPARATORS.get(self.separator, repr(self.separator))}-separated, {self.encoding}"
 
     def said(self) -> tuple:
@@ -112,7 +112,9 @@ def decode(raw: bytes, where, encoding=None):
         return raw.decode("utf-8"), "UTF-8", True
     except UnicodeDecodeError as exc:
         bad = exc.start
-    if _UTF8_SEQUENCE.search(raw):
+    sequences = _UTF8_SEQUENCE.findall(raw)
+    stray = len(raw.translate(None, bytes(range(128)))) - sum(len(q) for q in sequences)
+    if len(sequences) > stray:  # mostly UTF-8: a broken byte, not another encoding
         raise InputError(f"is UTF-8 text with a broken byte (byte {bad}, value 0x{raw[bad]:02x}); fix that "
                          "cell or export the file again", file=where, row=_row_of(raw, bad))
     try:
