@@ -202,3 +202,44 @@ def test_demo_written_as_a_real_export_reads_like_the_demo(tmp_path, demo_prepar
     assert ignored.loc["TEAM_ID", "role"] == "ignored" and "id" in ignored.loc["TEAM_ID", "note"]
     assert ignored.loc["AGE", "role"] == "ignored" and "age" in ignored.loc["AGE", "note"]
     assert ignored.loc["ISO_PPP", "family"] == "efficiency" and ignored.loc["ISO_PPP", "play_type"] == "isolation"
+
+
+@pytest.mark.slow
+def test_demo_written_as_a_european_export_with_season_totals_reads_like_the_demo(demo_prepared, tmp_path):
+    """The demo league as another club's tool writes it: semicolons and decimal commas, Windows-1252,
+    minutes per game to one decimal, and a '2TM' row before each traded player's stints. Every
+    player-season, team and stint count comes out as from the demo's own files."""
+    import warnings
+
+    from conftest import DEMO
+    from exports import with_combined_rows
+
+    from drift.api import prepare
+
+    for csv in sorted(DEMO.glob("*.csv")):
+        frame = pd.read_csv(csv, dtype={"player_id": str})
+        frame["season"] = csv.stem
+        frame = with_combined_rows(frame, "{n}TM")
+        frame.loc[0, "player"] = "Rémy Peñalta"  # one accented name, so the encoding matters
+        frame["minutes"] = (frame["minutes"].astype(float) / frame["games"].astype(float)).round(1)
+        frame.drop(columns="season").to_csv(tmp_path / csv.name, sep=";", decimal=",", index=False,
+                                            encoding="cp1252")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        read = prepare(tmp_path)
+    said = " ".join(str(w.message) for w in caught)
+    assert "read as semicolon-separated text" in said and "minutes per game, multiplied by games" in said
+    assert "read as Windows-1252 text" in said and "Rémy Peñalta" in set(read.seasons["player"])
+    traded = int((demo_prepared.seasons["n_stints"] > 1).sum())
+    assert len(read.combined) == traded and set(read.combined["team"]) == {"2TM"}
+    key = ["season", "player_id"]
+    ours = read.seasons.sort_values(key).reset_index(drop=True)
+    demo = demo_prepared.seasons.sort_values(key).reset_index(drop=True)
+    pd.testing.assert_frame_equal(ours[key + ["team", "games", "n_stints"]], demo[key + ["team", "games", "n_stints"]],
+                                  check_dtype=False)
+    # per-game minutes to one decimal: within 0.05 a game of the season totals (rounding, no more)
+    assert (np.abs(ours["minutes"] - demo["minutes"]) <= 0.05 * demo["games"] + 1e-6).all()
+    single = demo["n_stints"] == 1
+    np.testing.assert_allclose(ours.loc[single, list(demo_prepared.features)].to_numpy(float),
+                               demo.loc[single, list(demo_prepared.features)].to_numpy(float), atol=1e-9)
+    assert len(read.stints) == len(demo_prepared.stints)
