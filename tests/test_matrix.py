@@ -243,7 +243,7 @@ RUN_CASES = [
         t, "2021-22.csv", 'player_id,player,team,games,minutes,usage_pct\nP1,"Ann,AAA,50,900,20\n')),
          r"row 2: a quote opens a cell that never closes"),
     Case("data broken utf-8 byte", lambda w, t: _run(w, t, data=_file(
-        t, "2021-22.csv", b"player_id,player,team,games,minutes,usage_pct\nP1,R\xc3\xa9my,AAA,50,900,20\n"
+        t, "2021-22.csv", b"player_id,player,team,games,minutes,usage_pct\nP1,R\xc3\xa9my Pe\xc3\xb1a,AAA,50,900,20\n"
         b"P2,Ann\xff,AAA,50,900,20\n")), r"row 3: is UTF-8 text with a broken byte"),
     Case("data binary bytes in a text file", lambda w, t: _run(w, t, data=_file(
         t, "2021-22.csv", b"player_id,team\x00\x01,games\n" * 4)), r"is not a text file"),
