@@ -271,14 +271,31 @@ def _feature_order(per_table, config):
     return names
 
 
+def _raw_tables(data, config):
+    """(sources, RawTables): files through the file readers; DataFrames, Arrow tables and databases
+    through the source layer (:mod:`drift.intake._frames`), which makes the same RawTables."""
+    from drift.intake._frames import source_tables
+    from drift.intake._readers import read_tables
+
+    given = source_tables(data)
+    if given is not None:
+        return given
+    files = _files_of([data] if isinstance(data, (str, Path)) else data)
+    text_columns, recognise = _plan(config)
+    required = [c for c in REQUIRED_COLUMNS if c != "season"]
+    return files, (table for path in files for table in read_tables(
+        path, text_columns=text_columns, recognise=recognise, required=required, sheet=config.sheet))
+
+
 def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     """Read season files into one table of player-season-team rows.
 
     Parameters
     ----------
-    paths : path or list of paths
-        Season files (``.csv``, ``.xlsx``, ``.parquet``) and/or folders of them.
-        The season comes from a ``season`` column, else from the file (or sheet) name.
+    paths : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        Season files (``.csv``, ``.xlsx``, ``.parquet``) and/or folders of them, or tables
+        already in memory or in a database (:mod:`drift.intake._frames`). The season comes
+        from a ``season`` column, else from the file (or sheet, mapping key, table) name.
     config : Config or IntakePolicy, optional
         Column map, name rules, sheet and units (see docs/input.md, "Config file").
 
@@ -293,23 +310,16 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     """
     import pandas as pd
 
-    from drift.intake._readers import read_tables
     from drift.intake._units import harmonise_rates
 
     config = intake_policy(config)
-    if isinstance(paths, (str, Path)):
-        paths = [paths]
-    files = _files_of(paths)
-    text_columns, recognise = _plan(config)
-    required = [c for c in REQUIRED_COLUMNS if c != "season"]
+    files, tables = _raw_tables(paths, config)
     frames, per_table, rate_units, notes = [], [], [], []
-    for path in files:
-        for table in read_tables(path, text_columns=text_columns, recognise=recognise, required=required,
-                                 sheet=config.sheet):
-            frame, readings, units = _read_table(table, config, notes)
-            frames.append(frame)
-            per_table.append((table.where, readings))
-            rate_units.append((frame, table.where, units))
+    for table in tables:
+        frame, readings, units = _read_table(table, config, notes)
+        frames.append(frame)
+        per_table.append((table.where, readings))
+        rate_units.append((frame, table.where, units))
     seen = {r.source for _, rs in per_table for r in rs}
     unused = [f"{ours} = {theirs!r}" for ours, theirs in config.columns.items() if theirs not in seen]
     if unused:
