@@ -41,6 +41,33 @@ class Placed:
             note = f"; {len(self.excluded)} excluded by the filters, listed in {self.excluded_path}"
         return f"placed {len(self.placements)} player-seasons; wrote {self.path}{note}"
 
+    def _role_rows(self):
+        placed = self.placements
+        if not len(placed):
+            return []
+        counts = placed.groupby(["role", "role_name"], sort=True).size()
+        return [(role, name, int(n)) for (role, name), n in counts.items()]
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        roles = ", ".join(f"{r} {name} ({n:,})" for r, name, n in self._role_rows())
+        return text_summary("Placed", self.summary(), parts=[("roles", roles or "none")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        return html_summary("drift Placed", self.summary(), tables=[
+            ("Roles", ("role", "name", "player-seasons"), self._role_rows()),
+            ("Excluded by the filters", ("reason", "player-seasons"), _reasons(self.excluded))])
+
+
+def _reasons(excluded):
+    """(reason, count) rows of an excluded table, most frequent first."""
+    if not len(excluded):
+        return []
+    return [(reason, int(n)) for reason, n in excluded["reason"].value_counts().items()]
+
 
 @dataclass(frozen=True)
 class Checked:
@@ -57,6 +84,30 @@ class Checked:
         shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
         page = f"; page: {self.out}/inseason.html" if self.out is not None else ""
         return f"checked {len(self.checks)} players against their last season ({shown or 'none beyond noise'}){page}"
+
+    #: rows of the strongest evidence a notebook summary lists; every one is in ``checks``
+    SHOWN_CHECKS = 8
+
+    def _check_rows(self):
+        top = self.checks[self.checks["status"].isin(["changed", "shifted"])].head(self.SHOWN_CHECKS)
+        return [(r["player"], r["team_to"], f"{r['role_from']} to {r['role_to']}", int(r["games_to"]),
+                 r["status"], f"{r['z']:.1f}") for r in top.to_dict(orient="records")]
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        return text_summary("Checked", self.summary(), parts=[("not checked", f"{len(self.excluded):,} rows")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        counts = self.checks["status"].value_counts()
+        rows = self._check_rows()
+        return html_summary("drift Checked", self.summary(), tables=[
+            ("Players by status", ("status", "players"), [(s, int(n)) for s, n in counts.items()]),
+            ("Moves beyond noise so far" + (f" (the {len(rows)} strongest)" if rows else ""),
+             ("player", "team", "role", "games", "status", "z"), rows),
+            ("Not checked", ("reason", "rows"), _reasons(self.excluded))])
 
 
 def _model_config(model, config):
