@@ -28,9 +28,18 @@ DATABASE = "league"
 
 def binaries():
     """The folder holding initdb, pg_ctl and postgres, or None (with the reason as second value)."""
-    for folder in sorted(glob.glob("/usr/lib/postgresql/*/bin"), key=lambda p: int(p.split("/")[-2]),
-                         reverse=True):
-        if all(os.access(os.path.join(folder, b), os.X_OK) for b in ("initdb", "pg_ctl", "postgres")):
+    if os.geteuid() == 0:
+        import pwd
+
+        try:
+            pwd.getpwnam("nobody")
+        except KeyError:
+            return None, "running as root, and there is no user 'nobody' to run the PostgreSQL test server"
+        if shutil.which("runuser") is None:
+            return None, "running as root, and there is no runuser to start the PostgreSQL test server as nobody"
+    versions = [p for p in glob.glob("/usr/lib/postgresql/*/bin") if p.split("/")[-2].isdigit()]
+    for folder in sorted(versions, key=lambda p: int(p.split("/")[-2]), reverse=True):
+        if all(os.access(os.path.join(folder, b), os.X_OK) for b in ("initdb", "pg_ctl", "postgres", "createdb")):
             return Path(folder), None
     return None, "PostgreSQL server binaries not found (apt-get install postgresql)"
 
@@ -69,9 +78,11 @@ def start() -> Server:
     folder_bin, reason = binaries()
     if folder_bin is None:
         raise RuntimeError(reason)
-    folder = Path(tempfile.mkdtemp(prefix="drift-pg-"))
+    root = os.geteuid() == 0
+    # as root, in /tmp itself: nobody must be able to reach the folder (TMPDIR may sit in root's home)
+    folder = Path(tempfile.mkdtemp(prefix="drift-pg-", dir="/tmp" if root and os.path.isdir("/tmp") else None))
     as_user = ()
-    if os.geteuid() == 0:  # the server refuses root: run it as nobody, who must own its folder
+    if root:  # the server refuses root: run it as nobody, who must own its folder
         shutil.chown(folder, "nobody")
         as_user = ("runuser", "-u", "nobody", "--")
     (folder / "pw").write_text(PASSWORD + "\n")

@@ -57,6 +57,9 @@ class Database:
     query: str | None = None
     query_file: str | Path | None = None
 
+    #: read by :mod:`drift.intake._frames`: a source that reads itself into RawTables
+    _drift_source = True
+
     def __post_init__(self):
         given = [n for n in ("table", "query", "query_file") if getattr(self, n) is not None]
         if len(given) != 1:

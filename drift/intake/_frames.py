@@ -41,9 +41,11 @@ def is_table(obj) -> bool:
 
 
 def _is_database(obj) -> bool:
-    from drift.intake._database import Database
+    """A source that reads itself (:class:`~drift.intake._database.Database`: ``tables()``, ``paths()``).
 
-    return isinstance(obj, Database)
+    Known by a class marker, not an import: the database module builds on this one.
+    """
+    return bool(getattr(type(obj), "_drift_source", False))
 
 
 def _is_source(data) -> bool:
