@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING
 from drift.config import Config
 from drift.errors import InputError
 from drift.intake.preflight import check_distinct, check_regular, check_settings
-from drift.intake.prepare import Prepared, _as_list, prepare, reference_pool
+from drift.intake.prepare import Prepared, _as_list, _data_files, prepare, reference_pool
 from drift.placing import check_files, place, place_files
 from drift.progress import stages
 from drift.threads import thread_limited
@@ -218,10 +218,13 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 
 
 def check(data, config: Config | None = None):
-    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.intake.dry_run.DataCheck`."""
+    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.intake.dry_run.DataCheck`.
+
+    ``data`` as for :func:`run`: paths, a DataFrame, a mapping of them, an Arrow table or a Database.
+    """
     from drift.intake.dry_run import check_data
     check_regular(_as_list(data))
-    check_distinct(_as_list(data))
+    check_distinct(_data_files(data))
     return check_data(lambda: prepare(data, config), config or Config(), check_settings)
 
 
@@ -232,8 +235,8 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
 
     Parameters
     ----------
-    data : path or list of paths
-        Season files or folders.
+    data : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        Season files or folders, or the seasons in memory or in a database (docs/sources.md).
     out : path
         Output folder; replaced only when the run succeeds.
     config : Config, optional
@@ -263,7 +266,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     st = stages(progress)
     guarded = [*_as_list(data), previous, *inputs]
     check_regular(guarded)
-    check_distinct(_as_list(data))
+    check_distinct(_data_files(data))
     check_output_folder(out, kind="run", inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config, progress=st)

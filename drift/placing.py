@@ -9,7 +9,7 @@ from typing import TYPE_CHECKING
 
 from drift.config import Config
 from drift.intake.preflight import check_distinct, check_placements_finite, check_regular
-from drift.intake.prepare import _as_list, prepare
+from drift.intake.prepare import _as_list, _data_files, prepare
 from drift.progress import stages
 from drift.settings_rules import count_from
 from drift.threads import thread_limited
@@ -126,7 +126,8 @@ def _model_config(model, config):
 @thread_limited(fitting=False)
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
                 min_minutes_per_game=None, inputs=(), progress=None):
-    """Place season files with a saved model and write one CSV.
+    """Place season files (or a DataFrame, a mapping of them, an Arrow table, a Database) with a saved
+    model and write one CSV.
 
     The model's features must all be present, and no others. The filters are
     the model's own (saved at fit time) unless ``min_games`` or
@@ -153,7 +154,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     excluded_path = out.with_name(f"{out.stem}_excluded.csv")
     guarded = [model_path, *_as_list(files), *inputs]
     check_regular(guarded)
-    check_distinct(_as_list(files))
+    check_distinct(_data_files(files))
     check_output_file(out, inputs=guarded)
     check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"), what="the excluded list")
     model = RoleModel.load(model_path)
@@ -190,8 +191,8 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     ----------
     model_path : path
         A ``model.json``.
-    partial, against : path or list of paths
-        The season under way, and earlier full seasons (files or folders).
+    partial, against : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        The season under way, and earlier full seasons (files or folders, or tables: docs/sources.md).
     out : path
         Folder for ``inseason.csv``, ``inseason.html`` and ``inseason_excluded.csv``.
     min_games, min_minutes_per_game : optional
@@ -220,7 +221,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
 
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_regular(guarded)
-    check_distinct([*_as_list(partial), *_as_list(against)])
+    check_distinct([*_data_files(partial), *_data_files(against)])
     check_output_folder(out, kind="inseason", inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
     # alpha and season_games go through the settings' own validators, like every other setting
