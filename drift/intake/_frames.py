@@ -33,7 +33,10 @@ SINGLE_NAME = "seasons"
 
 def is_table(obj) -> bool:
     """True for a pandas DataFrame or an object that converts to one through Arrow."""
-    if type(obj).__name__ == "DataFrame" and type(obj).__module__.startswith("pandas"):
+    import sys
+
+    pandas = sys.modules.get("pandas")  # a DataFrame exists only once pandas is loaded: no import here
+    if pandas is not None and isinstance(obj, pandas.DataFrame):
         return True
     if isinstance(obj, (str, bytes)) or hasattr(obj, "__fspath__"):
         return False
@@ -99,8 +102,12 @@ _NO_SEASON = ("there is no season column; add one, or pass a mapping of season -
 
 def _kind(obj) -> str:
     """What a table is called in messages: ``DataFrame``, or its type (``Table`` for pyarrow's)."""
-    name = type(obj).__name__
-    return "DataFrame" if name == "DataFrame" or not is_table(obj) else name
+    import sys
+
+    pandas = sys.modules.get("pandas")
+    if not is_table(obj) or (pandas is not None and isinstance(obj, pandas.DataFrame)):
+        return "DataFrame"
+    return type(obj).__name__
 
 
 def _to_pandas(obj, where):
