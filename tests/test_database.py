@@ -162,7 +162,7 @@ def test_the_password_is_masked_in_every_shown_form():
 @pytest.fixture(scope="module")
 def postgres(league):
     """A throwaway server holding the league as table ``seasons``; stopped when the module ends."""
-    pytest.importorskip("psycopg", reason="the psycopg driver is not installed (pip install 'drift[postgres]')")
+    pytest.importorskip("psycopg", reason="the psycopg driver is not installed (pip install 'role-drift[postgres]')")
     import pgserver
 
     found, reason = pgserver.binaries()

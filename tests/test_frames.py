@@ -64,7 +64,7 @@ def test_a_mapping_names_each_frame_and_its_key_gives_the_season(league, from_fo
 
 
 def test_arrow_tables_convert_through_to_pandas_and_the_stream_interface(league, from_csv):
-    pa = pytest.importorskip("pyarrow", reason="pyarrow is not installed (pip install 'drift[parquet]')")
+    pa = pytest.importorskip("pyarrow", reason="pyarrow is not installed (pip install 'role-drift[parquet]')")
 
     class StreamOnly:  # a table from another library that offers only the Arrow PyCapsule stream
         def __init__(self, table):

@@ -123,8 +123,10 @@ def _to_pandas(obj, where):
             try:
                 import pyarrow as pa
             except ImportError:
-                raise InputError("reading an Arrow table needs pyarrow: pip install 'drift[parquet]'",
-                                 file=where) from None
+                from drift.constants import DISTRIBUTION
+
+                raise InputError(f"reading an Arrow table needs pyarrow: pip install pyarrow (or "
+                                 f"'{DISTRIBUTION}[parquet]')", file=where) from None
             frame = pa.table(obj).to_pandas()
     except InputError:
         raise
