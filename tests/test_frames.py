@@ -137,6 +137,7 @@ def test_a_table_that_fails_to_convert_is_refused_with_its_reason():
         drift.prepare(NotAFrame())
 
 
+@pytest.mark.slow
 def test_every_api_entry_point_takes_frames(league, tmp_path):
     """run, check, place and the in-season check: a DataFrame wherever files were taken."""
     config = drift.Config(roles=3, components=2)
