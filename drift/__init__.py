@@ -8,7 +8,7 @@ __version__ = "0.1.0"
 
 __all__ = [
     "run", "analyse", "fit_model", "check", "place", "prepare", "place_files", "check_files",
-    "RoleModel", "Config", "load_config", "read_seasons", "align_models", "DriftError", "InputError", "ConfigError", "ModelFileError",
+    "RoleModel", "Config", "load_config", "read_seasons", "Database", "align_models", "DriftError", "InputError", "ConfigError", "ModelFileError",
     "NotFittedError", "DriftWarning", "DataQualityWarning", "ModelQualityWarning",
     "__version__",
 ]
@@ -17,6 +17,7 @@ _WHERE = {
     "run": "api", "analyse": "api", "fit_model": "api", "check": "api", "place": "api", "prepare": "api",
     "place_files": "api", "check_files": "api",
     "RoleModel": "model", "Config": "config", "load_config": "config", "read_seasons": "intake",
+    "Database": "intake",
     "align_models": "model.align",
 }
 

@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING
 from drift.config import Config
 from drift.errors import InputError
 from drift.intake.preflight import check_distinct, check_regular, check_settings
-from drift.intake.prepare import Prepared, _as_list, prepare, reference_pool
+from drift.intake.prepare import Prepared, _as_list, _data_files, prepare, reference_pool
 from drift.placing import check_files, place, place_files
 from drift.progress import stages
 from drift.threads import thread_limited
@@ -60,6 +60,61 @@ class Analysis:
         """One line: player-seasons placed, roles, role changes beyond noise (the CLI prints it)."""
         return (f"placed {len(self.placements)} player-seasons in {len(self.model.role_ids_)} roles; "
                 f"{self.n_changed} role changes beyond noise")
+
+    #: role changes a notebook summary lists (the largest first); every one is in ``moves``
+    SHOWN_CHANGES = 8
+
+    @property
+    def warnings(self) -> tuple:
+        """What deserves a look: roles that do not reproduce, values set to the pool mean, intake notes."""
+        said = list(self.model._weak_roles())
+        if self.prepared is not None:
+            missing = self.prepared.missing
+            filled = missing[missing["family"].isin(["rate", "shooting"]) & (missing["missing"] > 0)]
+            said += [f"{f}: {n} missing value(s) set to the pool mean" for f, n in zip(filled["feature"],
+                                                                                    filled["missing"])]
+            notes = list(self.prepared.reading.notes) if self.prepared.reading is not None else []
+            said += notes[:5] + ([f"... and {len(notes) - 5} more intake notes"] if len(notes) > 5 else [])
+        return tuple(said)
+
+    def _role_rows(self):
+        model, placed = self.model, self.placements
+        latest = placed["season"].max() if len(placed) else None
+        counts = placed["role"].value_counts()
+        recent = placed.loc[placed["season"] == latest, "role"].value_counts()
+        return latest, [(rid, name, int(size), int(counts.get(rid, 0)), int(recent.get(rid, 0)))
+                        for rid, name, size in zip(model.role_ids_, model.role_names_, model.role_sizes_)]
+
+    def _change_rows(self):
+        names = dict(zip(self.model.role_ids_, self.model.role_names_))
+        if not len(self.moves):
+            return []
+        changed = self.moves[self.moves["status"] == "changed"]
+        top = changed.sort_values("z", ascending=False, kind="stable").head(self.SHOWN_CHANGES)
+        return [(r["player"], f"{r['season_from']} to {r['season_to']}", r["team_to"],
+                 f"{r['role_from']} {names.get(r['role_from'], '')} to {r['role_to']} {names.get(r['role_to'], '')}",
+                 f"{r['z']:.1f}") for r in top.to_dict(orient="records")]
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        said = self.warnings
+        roles = ", ".join(f"{rid} {name} ({placed:,})" for rid, name, _, placed, _ in self._role_rows()[1])
+        return text_summary("Analysis", self.summary(), parts=[
+            ("roles (player-seasons placed)", roles),
+            ("warnings", f"{len(said)}, the first: {said[0]}" if said else "none")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        latest, roles = self._role_rows()
+        changes = self._change_rows()
+        return html_summary("drift Analysis", self.summary(), tables=[
+            ("Roles", ("role", "name", "pool size", "placed", f"placed in {latest}"), roles),
+            (f"Role changes beyond noise: {self.n_changed:,}" + (f" (the {len(changes)} largest by z)" if changes
+                                                                 else ""),
+             ("player", "seasons", "team", "role", "z"), changes)],
+            lists=[("Warnings", self.warnings)])
 
 
 @thread_limited(fitting=True)
@@ -163,10 +218,13 @@ def write_outputs(analysis: Analysis, folder, *, progress=None):
 
 
 def check(data, config: Config | None = None):
-    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.intake.dry_run.DataCheck`."""
+    """Dry run of :func:`run` (intake and filters, no fit): a :class:`drift.intake.dry_run.DataCheck`.
+
+    ``data`` as for :func:`run`: paths, a DataFrame, a mapping of them, an Arrow table or a Database.
+    """
     from drift.intake.dry_run import check_data
     check_regular(_as_list(data))
-    check_distinct(_as_list(data))
+    check_distinct(_data_files(data))
     return check_data(lambda: prepare(data, config), config or Config(), check_settings)
 
 
@@ -177,8 +235,8 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
 
     Parameters
     ----------
-    data : path or list of paths
-        Season files or folders.
+    data : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        Season files or folders, or the seasons in memory or in a database (docs/sources.md).
     out : path
         Output folder; replaced only when the run succeeds.
     config : Config, optional
@@ -208,7 +266,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     st = stages(progress)
     guarded = [*_as_list(data), previous, *inputs]
     check_regular(guarded)
-    check_distinct(_as_list(data))
+    check_distinct(_data_files(data))
     check_output_folder(out, kind="run", inputs=guarded, names=OUTPUT_FILES)
     prev = RoleModel.load(previous) if previous else None
     prepared = prepare(data, config, progress=st)

@@ -10,6 +10,7 @@ __all__ = ["main", "build_parser"]
 _RUN_EXAMPLE = """example:
   drift run demo_seasons --out drift-report
   drift run seasons/ --out review --reference 2021-22 2022-23 2023-24 --roles 7 --compare 2021-22 2024-25
+  drift run --db postgresql://analyst@db.local/league --query seasons.sql --out review
 """
 _PLACE_EXAMPLE = """example:
   drift place drift-report/model.json current/2025-26.csv --out early.csv --min-games 10
@@ -17,6 +18,7 @@ _PLACE_EXAMPLE = """example:
 """
 _CHECK_EXAMPLE = """example:
   drift check seasons/ --config drift.toml
+  drift check --db sqlite:///league.db --table seasons
 """
 _DEMO_EXAMPLE = """example:
   drift demo --out my_demo --seed 7
@@ -125,6 +127,35 @@ def _add_intake_options(p):
                    help=f"fewest minutes per game (run: default {intake.min_minutes_per_game:g}; place: the model's)")
 
 
+def _add_source_options(p):
+    """The data as positional paths, or a database: --db URL with --table or --query."""
+    p.add_argument("data", nargs="*", help="season files (.csv, .xlsx, .parquet) or folders of them "
+                                            "(or --db instead)")
+    db = p.add_argument_group("reading from a database (instead of files)")
+    db.add_argument("--db", metavar="URL", help="database URL: sqlite:///league.db or "
+                                                "postgresql://user@host/db (the password is never shown)")
+    what = db.add_mutually_exclusive_group()
+    what.add_argument("--table", metavar="NAME", help="with --db: the table (or view) holding the seasons")
+    what.add_argument("--query", metavar="FILE.sql", help="with --db: a file holding one SQL query")
+
+
+def _source(parser, args):
+    """The data to read: the paths given, or a Database; a wrong mix is one parser error."""
+    if args.db is None:
+        if args.table is not None or args.query is not None:
+            parser.error("--table and --query read from a database: give --db URL too")
+        if not args.data:
+            parser.error("give season files or folders, or a database (--db URL with --table or --query)")
+        return args.data
+    if args.data:
+        parser.error(f"give season files or --db, not both (files given: {', '.join(args.data[:3])})")
+    if args.table is None and args.query is None:
+        parser.error("--db needs --table NAME or --query FILE.sql: what to read from the database")
+    from drift.intake import Database
+
+    return Database(args.db, table=args.table, query_file=args.query)
+
+
 def _add_progress_options(p):
     shown = p.add_mutually_exclusive_group()
     shown.add_argument("--quiet", action="store_true", help="no progress lines on standard error")
@@ -158,7 +189,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     run = sub.add_parser("run", help="fit roles on a reference pool, place every season, measure moves",
                          epilog=_RUN_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
-    run.add_argument("data", nargs="+", help="season files (.csv, .xlsx, .parquet) or folders of them")
+    _add_source_options(run)
     run.add_argument("--out", required=True, metavar="DIR", help="output folder (replaced only on success)")
     _add_intake_options(run)
     run.add_argument("--reference", nargs="+", metavar="SEASON", help="seasons of the pool (default: all)")
@@ -196,7 +227,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     check = sub.add_parser("check", help="dry run: say how every column was read, fit nothing",
                            epilog=_CHECK_EXAMPLE, formatter_class=argparse.RawDescriptionHelpFormatter)
-    check.add_argument("data", nargs="+", help="season files (.csv, .xlsx, .parquet) or folders of them")
+    _add_source_options(check)
     _add_intake_options(check)
 
     demo = sub.add_parser("demo", help="write the fictional demo league",
@@ -230,7 +261,7 @@ def _config(args):
 def _run(args):
     from drift.api import run
 
-    analysis = run(args.data, args.out, _config(args), previous=args.previous,
+    analysis = run(args.source, args.out, _config(args), previous=args.previous,
                    inputs=[args.config] if args.config else (), progress=_progress(args),
                    self_check=int(args.self_check))
     check = f"\ndrift: {analysis.self_check.sentence}" if analysis.self_check is not None else ""
@@ -252,11 +283,12 @@ def _check_data(args):
     from drift.intake.dry_run import format_check
     from drift.messages import printable
 
-    result = check(args.data, _config(args))
+    result = check(args.source, _config(args))
     print("\n".join(printable(line) for line in format_check(result).splitlines()))  # names are the user's
     if not result.ok:
         raise InputError("a run would not work: " + "; ".join(result.problems))
-    return "drift: check passed; `drift run` with these files and this config would work"
+    data = "this database" if args.db else "these files"
+    return f"drift: check passed; `drift run` with {data} and this config would work"
 
 
 def _place(args):
@@ -288,7 +320,11 @@ def main(argv=None) -> int:
     """
     from drift.messages import run_guarded
 
-    args = build_parser().parse_args(argv)
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if args.command in ("run", "check"):
+        sub = next(a for a in parser._actions if a.dest == "command").choices[args.command]
+        args.source = _source(sub, args)
     return run_guarded({"run": _run, "place": _place, "check": _check_data, "demo": _demo}[args.command], args,
                        debug=args.debug)
 

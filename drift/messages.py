@@ -16,13 +16,17 @@ again, and a loop over the records would never end).
 
 Text that reaches the terminal has control characters escaped (``\\x1b`` ...), so a player
 name or path cannot move the cursor, recolour the screen or hide the rest of the line.
+
+The result objects' short summaries in a notebook and a terminal are built here too
+(:func:`html_summary` for ``_repr_html_``, :func:`text_summary` for ``__repr__``): every
+value is escaped, since names, teams and paths are the user's text.
 """
 
 from __future__ import annotations
 
 import sys
 
-__all__ = ["printable", "one_line", "run_guarded", "Terminated"]
+__all__ = ["printable", "one_line", "run_guarded", "Terminated", "html_summary", "text_summary"]
 
 _BIDI = set(range(0x202A, 0x202F)) | set(range(0x2066, 0x206A))
 
@@ -170,3 +174,43 @@ def run_guarded(func, args, *, debug=False) -> int:
         return 130
     finally:
         _restore_sigterm(previous)
+
+
+def _cell(value) -> str:
+    import numbers
+
+    if value is None or (isinstance(value, float) and value != value):
+        return ""
+    return f"{value:,}" if isinstance(value, numbers.Integral) and not isinstance(value, bool) else str(value)
+
+
+def html_summary(title, line, *, tables=(), lists=()) -> str:
+    """A short HTML block for a notebook (``_repr_html_``); every text is escaped.
+
+    ``tables``: ``(caption, headers, rows)`` with rows of values; ``lists``: ``(caption, items)``,
+    shown as ``caption: none`` when empty.
+    """
+    from html import escape
+
+    parts = [f'<div class="drift-summary"><strong>{escape(str(title))}</strong>',
+             f"<p>{escape(str(line))}</p>"]
+    for caption, headers, rows in tables:
+        head = "".join(f'<th style="text-align:left">{escape(str(h))}</th>' for h in headers)
+        body = "".join("<tr>" + "".join(f'<td style="text-align:left">{escape(_cell(v))}</td>' for v in row)
+                       + "</tr>" for row in rows)
+        parts.append(f"<p>{escape(str(caption))}</p><table><thead><tr>{head}</tr></thead>"
+                     f"<tbody>{body}</tbody></table>")
+    for caption, items in lists:
+        if items:
+            shown = "".join(f"<li>{escape(str(i))}</li>" for i in items)
+            parts.append(f"<p>{escape(str(caption))}:</p><ul>{shown}</ul>")
+        else:
+            parts.append(f"<p>{escape(str(caption))}: none</p>")
+    return "".join(parts) + "</div>"
+
+
+def text_summary(title, line, *, parts=()) -> str:
+    """A short plain-text summary for a terminal (``__repr__``): the title and line, then
+    ``label: text`` lines, control characters escaped."""
+    out = [f"{title}: {line}"] + [f"  {label}: {text}" for label, text in parts if text is not None]
+    return "\n".join(printable(x) for x in out)

@@ -9,7 +9,7 @@ from typing import TYPE_CHECKING
 
 from drift.config import Config
 from drift.intake.preflight import check_distinct, check_placements_finite, check_regular
-from drift.intake.prepare import _as_list, prepare
+from drift.intake.prepare import _as_list, _data_files, prepare
 from drift.progress import stages
 from drift.settings_rules import count_from
 from drift.threads import thread_limited
@@ -41,6 +41,33 @@ class Placed:
             note = f"; {len(self.excluded)} excluded by the filters, listed in {self.excluded_path}"
         return f"placed {len(self.placements)} player-seasons; wrote {self.path}{note}"
 
+    def _role_rows(self):
+        placed = self.placements
+        if not len(placed):
+            return []
+        counts = placed.groupby(["role", "role_name"], sort=True).size()
+        return [(role, name, int(n)) for (role, name), n in counts.items()]
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        roles = ", ".join(f"{r} {name} ({n:,})" for r, name, n in self._role_rows())
+        return text_summary("Placed", self.summary(), parts=[("roles", roles or "none")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        return html_summary("drift Placed", self.summary(), tables=[
+            ("Roles", ("role", "name", "player-seasons"), self._role_rows()),
+            ("Excluded by the filters", ("reason", "player-seasons"), _reasons(self.excluded))])
+
+
+def _reasons(excluded):
+    """(reason, count) rows of an excluded table, most frequent first."""
+    if not len(excluded):
+        return []
+    return [(reason, int(n)) for reason, n in excluded["reason"].value_counts().items()]
+
 
 @dataclass(frozen=True)
 class Checked:
@@ -57,6 +84,30 @@ class Checked:
         shown = ", ".join(f"{int(counts[s])} {s}" for s in ("changed", "shifted", "too early") if s in counts)
         page = f"; page: {self.out}/inseason.html" if self.out is not None else ""
         return f"checked {len(self.checks)} players against their last season ({shown or 'none beyond noise'}){page}"
+
+    #: rows of the strongest evidence a notebook summary lists; every one is in ``checks``
+    SHOWN_CHECKS = 8
+
+    def _check_rows(self):
+        top = self.checks[self.checks["status"].isin(["changed", "shifted"])].head(self.SHOWN_CHECKS)
+        return [(r["player"], r["team_to"], f"{r['role_from']} to {r['role_to']}", int(r["games_to"]),
+                 r["status"], f"{r['z']:.1f}") for r in top.to_dict(orient="records")]
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        return text_summary("Checked", self.summary(), parts=[("not checked", f"{len(self.excluded):,} rows")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        counts = self.checks["status"].value_counts()
+        rows = self._check_rows()
+        return html_summary("drift Checked", self.summary(), tables=[
+            ("Players by status", ("status", "players"), [(s, int(n)) for s, n in counts.items()]),
+            ("Moves beyond noise so far" + (f" (the {len(rows)} strongest)" if rows else ""),
+             ("player", "team", "role", "games", "status", "z"), rows),
+            ("Not checked", ("reason", "rows"), _reasons(self.excluded))])
 
 
 def _model_config(model, config):
@@ -75,7 +126,8 @@ def _model_config(model, config):
 @thread_limited(fitting=False)
 def place_files(model_path, files, out, config: Config | None = None, *, min_games=None,
                 min_minutes_per_game=None, inputs=(), progress=None):
-    """Place season files with a saved model and write one CSV.
+    """Place season files (or a DataFrame, a mapping of them, an Arrow table, a Database) with a saved
+    model and write one CSV.
 
     The model's features must all be present, and no others. The filters are
     the model's own (saved at fit time) unless ``min_games`` or
@@ -102,7 +154,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     excluded_path = out.with_name(f"{out.stem}_excluded.csv")
     guarded = [model_path, *_as_list(files), *inputs]
     check_regular(guarded)
-    check_distinct(_as_list(files))
+    check_distinct(_data_files(files))
     check_output_file(out, inputs=guarded)
     check_output_file(excluded_path, inputs=guarded, header=("player_id", "reason"), what="the excluded list")
     model = RoleModel.load(model_path)
@@ -139,8 +191,8 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     ----------
     model_path : path
         A ``model.json``.
-    partial, against : path or list of paths
-        The season under way, and earlier full seasons (files or folders).
+    partial, against : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        The season under way, and earlier full seasons (files or folders, or tables: docs/sources.md).
     out : path
         Folder for ``inseason.csv``, ``inseason.html`` and ``inseason_excluded.csv``.
     min_games, min_minutes_per_game : optional
@@ -169,7 +221,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
 
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
     check_regular(guarded)
-    check_distinct([*_as_list(partial), *_as_list(against)])
+    check_distinct([*_data_files(partial), *_data_files(against)])
     check_output_folder(out, kind="inseason", inputs=guarded, names=INSEASON_FILES)
     model = RoleModel.load(model_path)
     # alpha and season_games go through the settings' own validators, like every other setting

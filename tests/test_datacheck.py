@@ -96,3 +96,20 @@ def test_check_unit_column_says_per_game_minutes_were_converted(tmp_path, capsys
     out = capsys.readouterr().out
     line = next(ln for ln in out.splitlines() if ln.startswith("  MIN "))
     assert "per game -> season total" in line
+
+
+def test_a_check_summarises_itself_in_one_line_a_terminal_and_a_notebook():
+    import drift
+
+    table = small_table(n_players=12, seasons=("2021-22", "2022-23"))
+    table.loc[0, ["games", "minutes"]] = 3, 90  # one exclusion by the games filter (a plausible 30 a game)
+    passed = drift.check(table)
+    assert passed.summary() == ("check passed: 23 of 24 player-seasons pass the filters (2 season(s), "
+                                "4 features, 1 table(s) read)")
+    assert repr(passed).splitlines() == [f"DataCheck: {passed.summary()}",
+                                         "  seasons: 2021-22 (11 kept), 2022-23 (12 kept)", "  warnings: none"]
+    page = passed._repr_html_()
+    assert "DataFrame &#x27;seasons&#x27;" in page and "games &lt; 20" in page and "<p>Problems: none</p>" in page
+    failed = drift.check(table.drop(columns="minutes"))
+    assert failed.summary().startswith("check failed: DataFrame 'seasons': missing required column(s) ['minutes']")
+    assert "<li>DataFrame &#x27;seasons&#x27;: missing required column(s) [&#x27;minutes&#x27;]" in failed._repr_html_()

@@ -148,3 +148,17 @@ def test_warnings_differing_only_in_numbers_are_one_line(capsys):
 
     assert run_guarded(job, None) == 0
     assert capsys.readouterr().err == "drift: warning: UserWarning: found 2 distinct clusters, fewer than 3 (6 times)\n"
+
+
+def test_summaries_escape_the_users_text():
+    from drift.messages import html_summary, text_summary
+
+    page = html_summary("<b>t</b>", "a & b", tables=[("c<", ("h>",), [("<i>x</i>", 1234, None)])],
+                        lists=[("Warnings", ["<script>"]), ("Problems", [])])
+    assert page == ('<div class="drift-summary"><strong>&lt;b&gt;t&lt;/b&gt;</strong><p>a &amp; b</p>'
+                    '<p>c&lt;</p><table><thead><tr><th style="text-align:left">h&gt;</th></tr></thead><tbody><tr>'
+                    '<td style="text-align:left">&lt;i&gt;x&lt;/i&gt;</td><td style="text-align:left">1,234</td>'
+                    '<td style="text-align:left"></td></tr></tbody></table>'
+                    '<p>Warnings:</p><ul><li>&lt;script&gt;</li></ul><p>Problems: none</p></div>')
+    assert text_summary("T", "line\x1b[2J", parts=[("roles", "R1 a\x07"), ("skipped", None)]) == \
+        "T: line\\x1b[2J\n  roles: R1 a\\x07"

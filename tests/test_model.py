@@ -141,7 +141,32 @@ def test_unstable_role_warns():
     frame = pd.DataFrame(rng.normal(size=(200, 3)), columns=["a_pct", "b_pct", "c_pct"])
     frame["player_id"], frame["season"], frame["minutes"] = [f"p{i}" for i in range(200)], "2020", 1000.0
     with pytest.warns(ModelQualityWarning, match="do not reproduce"):
-        RoleModel(components=3, roles=6, n_bootstrap=8).fit(frame, features=("a_pct", "b_pct", "c_pct"))
+        model = RoleModel(components=3, roles=6, n_bootstrap=8).fit(frame, features=("a_pct", "b_pct", "c_pct"))
+    # the notebook and terminal summaries carry the same warning
+    weak = [rid for rid, s in zip(model.role_ids_, model.role_stability_) if s < 0.6]
+    assert repr(model).splitlines()[-1].startswith(f"  warnings: {len(weak)}: role {weak[0]} (")
+    assert f"<li>role {weak[0]} (" in model._repr_html_()
+
+
+def test_a_model_shows_its_roles_briefly_in_a_terminal_and_a_notebook(demo_model):
+    import copy
+
+    lines = repr(demo_model).splitlines()
+    assert len(lines) == 3 and lines[0] == f"RoleModel: {demo_model.summary()}"
+    k = len(demo_model.role_ids_)
+    # the demo pool: 1939 player-seasons of six seasons (docs/cli.md shows the same count)
+    assert demo_model.summary().startswith(f"{k} roles fitted on 1,939 player-seasons of 6 season(s) "
+                                           "(2019-20 to 2024-25); ")
+    page = demo_model._repr_html_()
+    for rid, name, size in zip(demo_model.role_ids_, demo_model.role_names_, demo_model.role_sizes_):
+        assert f"{rid} {name} ({size:,})" in lines[1]
+        assert f"<td style=\"text-align:left\">{rid}</td><td style=\"text-align:left\">{name}</td>" \
+               f"<td style=\"text-align:left\">{size:,}</td>" in page
+    assert lines[2] == "  warnings: none" and "<p>Warnings: none</p>" in page
+    renamed = copy.copy(demo_model)
+    renamed.role_names_ = ["<script>alert(1)</script>"] + list(demo_model.role_names_[1:])
+    assert "<script>" not in renamed._repr_html_() and "&lt;script&gt;alert(1)&lt;/script&gt;" in renamed._repr_html_()
+    assert repr(RoleModel()) == "RoleModel: not fitted (roles=auto, components=variance, noise_policy=shrink)"
 
 
 def test_too_small_pool_is_refused():

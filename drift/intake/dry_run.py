@@ -38,6 +38,40 @@ class DataCheck:
         """True when ``drift run`` with the same data and config would get past intake and filters."""
         return not self.problems
 
+    def summary(self) -> str:
+        """One line: passed with what would be fitted, or failed with the first reason."""
+        if not self.ok:
+            more = f" (and {len(self.problems) - 1} more)" if len(self.problems) > 1 else ""
+            return f"check failed: {self.problems[0]}{more}"
+        p = self.prepared
+        return (f"check passed: {len(p.kept):,} of {len(p.seasons):,} player-seasons pass the filters "
+                f"({len(self.seasons)} season(s), {len(self.features)} features, "
+                f"{len(p.reading.sources)} table(s) read)")
+
+    def __repr__(self) -> str:
+        from drift.messages import text_summary
+
+        seasons = None
+        if self.seasons is not None:
+            seasons = ", ".join(f"{s} ({k:,} kept)" for s, k in zip(self.seasons["season"], self.seasons["kept"]))
+        return text_summary("DataCheck", self.summary(), parts=[
+            ("seasons", seasons),
+            ("warnings", f"{len(self.warnings)}, the first: {self.warnings[0]}" if self.warnings else "none")])
+
+    def _repr_html_(self) -> str:
+        from drift.messages import html_summary
+
+        tables = []
+        if self.seasons is not None:
+            tables.append(("Seasons", ("season", "player-seasons", "kept", "excluded", "read from"),
+                           [tuple(r) for r in self.seasons[["season", "player_seasons", "kept", "excluded",
+                                                            "files"]].itertuples(index=False)]))
+        if self.excluded_by_reason is not None:
+            tables.append(("Excluded by the filters", ("reason", "player-seasons"),
+                           [tuple(r) for r in self.excluded_by_reason[["reason", "n"]].itertuples(index=False)]))
+        return html_summary("drift DataCheck", self.summary(), tables=tables,
+                            lists=[("Problems", self.problems), ("Warnings", self.warnings)])
+
 
 def _reason_kind(code: str, config) -> str:
     """A filter reason code (see :data:`drift.constants.FILTER_REASONS`) with its threshold."""

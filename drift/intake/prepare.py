@@ -54,7 +54,8 @@ def prepare(data, config: IntakePolicy | None = None, *, progress=None) -> Prepa
 
     Parameters
     ----------
-    data : path or list of paths
+    data : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        Season files or folders, or tables in memory or in a database (docs/sources.md).
     config : Config or IntakePolicy, optional
         Only the intake part is used.
 
@@ -139,5 +140,19 @@ def reference_pool(prepared: Prepared, reference=None):
     return kept[kept["season"].isin(reference)].reset_index(drop=True)
 
 
+def _data_files(data):
+    """The season files and folders given as ``data`` (none for tables and databases): what
+    :func:`~drift.intake.preflight.check_distinct` checks, as each is read as a whole."""
+    from drift.intake._frames import source_paths
+
+    return [] if source_paths(data) is not None else _as_list(data)
+
+
 def _as_list(data):
+    """The paths ``data`` reads, to guard and check: the files given, a database's file, none for a DataFrame."""
+    from drift.intake._frames import source_paths
+
+    paths = source_paths(data)
+    if paths is not None:
+        return paths
     return [data] if isinstance(data, (str, Path)) else list(data)

@@ -233,14 +233,34 @@ def _feature_order(per_table, config):
     return names
 
 
+def _raw_tables(data, config):
+    """(sources, RawTables): files through the file readers; DataFrames, Arrow tables and databases
+    through the source layer (:mod:`drift.intake._frames`), which makes the same RawTables."""
+    from drift.intake._frames import source_tables
+    from drift.intake._readers import read_tables
+
+    given = source_tables(data)
+    if given is not None:
+        return given
+    from drift.intake._readers import season_files
+
+    files = season_files([data] if isinstance(data, (str, Path)) else data, SUPPORTED_SUFFIXES)
+    text_columns, recognise = _plan(config)
+    required = [c for c in REQUIRED_COLUMNS if c != "season"]
+    return files, (table for path in files for table in read_tables(
+        path, text_columns=text_columns, recognise=recognise, required=required, sheet=config.sheet,
+        csv=dict(config.csv)))
+
+
 def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
     """Read season files into one table of player-season-team rows.
 
     Parameters
     ----------
-    paths : path or list of paths
-        Season files (``.csv``, ``.tsv``, ``.xlsx``, ``.xls``, ``.parquet``) and/or folders of them.
-        The season comes from a ``season`` column, else from the file (or sheet) name.
+    paths : path, list of paths, DataFrame, mapping of name -> DataFrame, Arrow table or Database
+        Season files (``.csv``, ``.tsv``, ``.xlsx``, ``.xls``, ``.parquet``) and/or folders of them, or tables
+        already in memory or in a database (:mod:`drift.intake._frames`). The season comes
+        from a ``season`` column, else from the file (or sheet, mapping key, table) name.
     config : Config or IntakePolicy, optional
         Column map, name rules, sheet and units (see docs/input.md, "Config file").
 
@@ -256,35 +276,26 @@ def read_seasons(paths, config: IntakePolicy | None = None) -> RawSeasons:
         ``drift check`` shows it), or None when no column was read.
     """
     from drift.intake._column_table import column_table
-    from drift.intake._readers import season_files
 
     config = intake_policy(config)
-    if isinstance(paths, (str, Path)):
-        paths = [paths]
     seen, converted = [], {}
     try:
-        files = season_files(paths, SUPPORTED_SUFFIXES)
-        return _read_all(files, config, seen, converted)
+        files, tables = _raw_tables(paths, config)
+        return _read_all(files, tables, config, seen, converted)
     except InputError as exc:
         exc.columns = column_table(seen, {}, converted) if seen else None
         raise
 
 
-def _read_all(files, config, seen, converted):
-    from drift.intake._readers import read_tables
-
-    text_columns, recognise = _plan(config)
-    required = [c for c in REQUIRED_COLUMNS if c != "season"]
+def _read_all(files, tables, config, seen, converted):
     frames, per_table, rate_units, notes, forms = [], [], [], [], {}
-    for path in files:
-        for table in read_tables(path, text_columns=text_columns, recognise=recognise, required=required,
-                                 sheet=config.sheet, csv=dict(config.csv)):
-            frame, readings, units, table_converted = _read_table(table, config, notes, seen)
-            converted.update({(table.where, name): unit for name, unit in table_converted.items()})
-            frames.append(frame)
-            per_table.append((table.where, readings))
-            rate_units.append((frame, table.where, units))
-            forms[table.where] = table.form
+    for table in tables:
+        frame, readings, units, table_converted = _read_table(table, config, notes, seen)
+        converted.update({(table.where, name): unit for name, unit in table_converted.items()})
+        frames.append(frame)
+        per_table.append((table.where, readings))
+        rate_units.append((frame, table.where, units))
+        forms[table.where] = table.form
     names = {r.source for _, rs in per_table for r in rs}
     unused = [f"{ours} = {theirs!r}" for ours, theirs in config.columns.items() if theirs not in names]
     if unused:

@@ -11,6 +11,7 @@ Pipeline (all constants learned on the pool only):
 from __future__ import annotations
 
 from drift.errors import ModelFileError, NotFittedError
+from drift.model._display import DisplayMethods
 from drift.model._fitting import FittingSteps
 from drift.model.fileformat import FileMethods
 from drift.model.settings import ModelSettings
@@ -36,7 +37,7 @@ _SETTINGS = ("components", "variance_threshold", "roles", "max_roles", "noise_po
              "n_init", "n_bootstrap", "role_names")
 
 
-class RoleModel(FittingSteps, FileMethods):
+class RoleModel(FittingSteps, FileMethods, DisplayMethods):
     """Role groups fitted on a pooled reference set of seasons.
 
     Parameters
