@@ -180,3 +180,14 @@ def write_csv(tmp_path):
         frame.to_csv(path, index=False)
         return path
     return _write
+
+
+#: fixtures that fit or run the whole demo league: a test that needs one is slow by construction
+_DEMO_FIXTURES = {"demo_prepared", "demo_model", "demo_analysis", "demo_run", "small_run"}
+
+
+def pytest_collection_modifyitems(config, items):
+    """Mark every test that needs a demo fit or run as ``slow``: ``-m 'not slow'`` is the fast inner loop."""
+    for item in items:
+        if _DEMO_FIXTURES & set(getattr(item, "fixturenames", ())):
+            item.add_marker(pytest.mark.slow)
