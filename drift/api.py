@@ -182,39 +182,46 @@ def analyse(prepared: Prepared, model, config: Config | None = None, *, alignmen
                     prepared=prepared, config=config, outlook=outlook, backtest=backtest)
 
 
-#: every file a run may write into its output folder (besides the marker)
-OUTPUT_FILES = ("model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
-                "role_drift.csv", "comparables.csv", "features.csv", "alignment.csv", "outlook.csv",
-                "backtest.csv", "backtest_calibration.csv", "self_check.csv", "report.html")
+#: every table a run may write into its output folder, as CSV (``name.csv``) or Parquet (``name.parquet``)
+OUTPUT_TABLES = ("placements", "moves", "excluded", "stints", "role_drift", "comparables", "features", "alignment",
+                 "outlook", "backtest", "backtest_calibration", "self_check")
+#: every file or folder a run may write into its output folder (besides the marker)
+OUTPUT_FILES = ("model.json", *(f"{t}.{ext}" for ext in ("csv", "parquet") for t in OUTPUT_TABLES),
+                "report.html", "report-data")
 
 
-def write_outputs(analysis: Analysis, folder, *, progress=None):
+def write_outputs(analysis: Analysis, folder, *, progress=None, table_format="csv"):
     """Write every output file of a run into ``folder`` (see docs/outputs.md).
 
-    CSV text cells are neutralised for spreadsheets (:mod:`drift.output.tables`).
+    Tables are CSV (text cells neutralised for spreadsheets, :mod:`drift.output.tables`) or, with
+    ``table_format="parquet"``, Parquet with the same columns and values; each role id has its
+    role's name beside it. The report is ``report.html`` with its ``report-data/`` folder.
     """
-    from drift.output.tables import write_csv
+    from drift.output.tables import with_role_names, write_table
     from drift.report import write_report
+    from drift.settings_rules import table_format as format_rule
 
+    table_format = format_rule("table_format", table_format)
     folder = Path(folder)
     st = stages(progress)
     analysis.model.save(folder / "model.json")
-    tables = [("placements.csv", analysis.placements), ("moves.csv", analysis.moves),
-              ("excluded.csv", analysis.prepared.excluded), ("stints.csv", analysis.stints),
-              ("role_drift.csv", analysis.role_drift), ("comparables.csv", analysis.comparables),
-              ("features.csv", analysis.prepared.reading.feature_table(analysis.model.noise_))]
+    names = dict(zip(analysis.model.role_ids_, analysis.model.role_names_))
+    tables = [("placements", analysis.placements), ("moves", analysis.moves),
+              ("excluded", analysis.prepared.excluded), ("stints", analysis.stints),
+              ("role_drift", analysis.role_drift), ("comparables", analysis.comparables),
+              ("features", analysis.prepared.reading.feature_table(analysis.model.noise_))]
     if analysis.alignment is not None:
-        tables.append(("alignment.csv", analysis.alignment.table))
+        tables.append(("alignment", analysis.alignment.table))
     if analysis.self_check is not None:
-        tables.append(("self_check.csv", analysis.self_check.runs))
+        tables.append(("self_check", analysis.self_check.runs))
     if analysis.outlook is not None:
-        tables += [("outlook.csv", analysis.outlook), ("backtest.csv", analysis.backtest.seasons),
-                   ("backtest_calibration.csv", analysis.backtest.calibration)]
+        tables += [("outlook", analysis.outlook), ("backtest", analysis.backtest.seasons),
+                   ("backtest_calibration", analysis.backtest.calibration)]
     with st.stage("write tables", sum(len(t) for _, t in tables)):
         for name, table in tables:
-            write_csv(table, folder / name)
+            write_table(with_role_names(table, names), folder / name, table_format=table_format)
     with st.stage("report", len(analysis.placements)):
-        write_report(analysis, folder / "report.html")
+        write_report(analysis, folder, ext=table_format)
 
 
 def check(data, config: Config | None = None):
@@ -230,7 +237,7 @@ def check(data, config: Config | None = None):
 
 @thread_limited(fitting=True)
 def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
-        progress=None, self_check: int = 0) -> Analysis:
+        progress=None, self_check: int = 0, table_format: str = "csv") -> Analysis:
     """The whole job: read, fit, place, measure, and write ``out`` atomically.
 
     Parameters
@@ -249,6 +256,8 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     self_check : int
         Simulations of leagues like this one to rerun (:func:`drift.sim.selfcheck.self_check`);
         0 (default) runs none. Each costs about one fit.
+    table_format : {"csv", "parquet"}
+        Format of the tables (default CSV); Parquet needs pyarrow (the extra ``parquet``).
 
     Everything that can be checked is checked before fitting: the output folder (writable,
     not an input, drift's own if it exists), the seasons named in ``config`` and the
@@ -262,7 +271,13 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
     from drift.model.align import align_models, relabel
     from drift.output.folders import atomic_folder, check_output_folder
 
+    from drift.output.tables import check_parquet
+    from drift.settings_rules import table_format as format_rule
+
     config = config or Config()
+    table_format = format_rule("table_format", table_format)
+    if table_format == "parquet":
+        check_parquet()
     st = stages(progress)
     guarded = [*_as_list(data), previous, *inputs]
     check_regular(guarded)
@@ -287,7 +302,7 @@ def run(data, out, config: Config | None = None, *, previous=None, inputs=(),
             analysis = replace(analysis, self_check=run_self_check(
                 prepared, model, config, n_sims=int(self_check), seed=config.seed))
     with atomic_folder(out, kind="run", inputs=guarded) as tmp:
-        write_outputs(analysis, tmp, progress=st)
+        write_outputs(analysis, tmp, progress=st, table_format=table_format)
     return analysis
 
 

@@ -205,6 +205,9 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--alpha", type=_setting("alpha", "fraction_open"),
                      help=f"level for 'beyond noise' (default {moves.alpha:g})")
     run.add_argument("--seed", type=_setting("seed", "seed"), help=f"random seed (default {model.seed})")
+    run.add_argument("--format", dest="table_format", type=_setting("format", "table_format"), default="csv",
+                     metavar="csv|parquet", help="format of the tables: csv (default) or parquet (same columns and "
+                                                  "values; needs pip install 'drift[parquet]')")
     run.add_argument("--self-check", type=_setting("self_check", "count_from", 0), default=0, metavar="N",
                      help="simulate N leagues like yours and report how often roles and role changes "
                           "are recovered (about one fit each; default 0: off)")
@@ -263,7 +266,7 @@ def _run(args):
 
     analysis = run(args.source, args.out, _config(args), previous=args.previous,
                    inputs=[args.config] if args.config else (), progress=_progress(args),
-                   self_check=int(args.self_check))
+                   self_check=int(args.self_check), table_format=args.table_format)
     check = f"\ndrift: {analysis.self_check.sentence}" if analysis.self_check is not None else ""
     return f"drift: {analysis.summary()}; report: {args.out}/report.html{check}"
 

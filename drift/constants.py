@@ -26,6 +26,8 @@ KMEANS_RESTARTS = 10
 STANDARD_COLUMNS = (
     "player_id", "player", "season", "team", "games", "minutes", "possessions", "stint",
 )
+#: formats a run's tables can be written in (``drift run --format``)
+TABLE_FORMATS = ("csv", "parquet")
 NOISE_POLICIES = ("shrink", "weight", "shrink+weight", "none", "shrink+restandardise")
 COMPONENT_RULES = ("parallel", "elbow", "variance")
 

@@ -147,7 +147,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
     """
     from drift.model import RoleModel
     from drift.output.folders import atomic_file, check_output_file
-    from drift.output.tables import write_csv
+    from drift.output.tables import with_role_names, write_csv
 
     st = stages(progress)
     out = Path(out)
@@ -166,7 +166,7 @@ def place_files(model_path, files, out, config: Config | None = None, *, min_gam
         placements = model.place(prepared.kept)
         check_placements_finite(placements, model_path)
     with st.stage("write placements", len(placements)), atomic_file(out, inputs=guarded) as tmp:
-        write_csv(placements, tmp)
+        write_csv(with_role_names(placements, dict(zip(model.role_ids_, model.role_names_))), tmp)
     # always written (header only when nothing is excluded): a list left by an earlier placement
     # beside new placements would describe other rows
     with atomic_file(excluded_path, inputs=guarded, header=("player_id", "reason"),
@@ -216,7 +216,7 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     from drift.measure.inseason import check_partial
     from drift.model import RoleModel
     from drift.output.folders import atomic_folder, check_output_folder
-    from drift.output.tables import write_csv
+    from drift.output.tables import with_role_names, write_csv
     from drift.report.inseason_page import write_page
 
     guarded = [model_path, *_as_list(partial), *_as_list(against), *inputs]
@@ -239,8 +239,9 @@ def check_files(model_path, partial, against, out, config: Config | None = None,
     unmatched = unmatched.assign(reason=FILTER_REASONS["no_earlier_season"], reason_code="no_earlier_season")
     columns = [c for c in part.excluded.columns if c in unmatched.columns]
     excluded = pd.concat([part.excluded, unmatched[columns]], ignore_index=True)
+    names = dict(zip(model.role_ids_, model.role_names_))
     with atomic_folder(out, kind="inseason", inputs=guarded) as tmp:
-        write_csv(checks, tmp / "inseason.csv")
+        write_csv(with_role_names(checks, names), tmp / "inseason.csv")
         write_csv(excluded, tmp / "inseason_excluded.csv")
         write_page(checks, model, tmp / "inseason.html", alpha=alpha, season_games=season_games,
                    n_excluded=len(excluded))

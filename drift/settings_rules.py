@@ -11,12 +11,13 @@ import dataclasses
 import math
 from numbers import Integral, Real
 
-from drift.constants import COMPONENT_RULES, KMEANS_RESTARTS, NOISE_POLICIES, STANDARD_COLUMNS
+from drift.constants import COMPONENT_RULES, KMEANS_RESTARTS, NOISE_POLICIES, STANDARD_COLUMNS, TABLE_FORMATS
 from drift.errors import ConfigError
 
 __all__ = ["non_negative", "count_from", "seed", "MAX_SEED", "fraction_open", "fraction_closed", "components", "roles",
-           "noise_policy", "optional_text", "names", "optional_names", "compare", "text_map",
-           "columns", "csv_format", "CSV_SEPARATORS", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES", "COMPONENT_RULES"]
+           "noise_policy", "table_format", "optional_text", "names", "optional_names", "compare", "text_map",
+           "columns", "csv_format", "CSV_SEPARATORS", "KMEANS_RESTARTS", "STANDARD_COLUMNS", "NOISE_POLICIES",
+           "COMPONENT_RULES"]
 
 
 def _is_int(value) -> bool:
@@ -88,6 +89,12 @@ def roles(name, value):
 def noise_policy(name, value):
     if value not in NOISE_POLICIES:
         _fail(name, value, f"one of {', '.join(NOISE_POLICIES)}")
+    return value
+
+
+def table_format(name, value):
+    if value not in TABLE_FORMATS:
+        _fail(name, value, f"one of {', '.join(TABLE_FORMATS)}")
     return value
 
 

@@ -35,17 +35,7 @@ def build_summary(analysis, b) -> dict:
     ]
     return {"title": "drift: role review", "drift_version": __version__,
             "fingerprint": model.fingerprint_, "seasons": b.seasons,
-            "reference_seasons": list(model.reference_seasons_), "summary": summary,
-            "player_pages_note": _pages_note(placements, b)}
-
-
-def _pages_note(placements, b):
-    n = placements["player_id"].nunique()
-    if len(b.player_anchor) >= n:
-        return ""
-    return (f"This league has {n:,} placed players; pages are given to the {len(b.player_anchor):,} the review "
-            "needs (moves beyond noise and unsettled labels of the latest season pair, the requested "
-            "comparison and the latest mid-season trades first). Every player is in placements.csv and moves.csv.")
+            "reference_seasons": list(model.reference_seasons_), "summary": summary}
 
 
 def build_drift(analysis, b) -> dict:
@@ -83,6 +73,7 @@ def build_features(analysis, b) -> dict:
 def build_data(analysis, b) -> dict:
     """Exclusions by reason, missing values, seasons outside the reference, files read."""
     from drift.constants import reason_text
+    from drift.report._cells import label
 
     prepared, placements = analysis.prepared, analysis.placements
     excluded = prepared.excluded
@@ -95,10 +86,12 @@ def build_data(analysis, b) -> dict:
                          "distance": f"{r['distance']:.2f}"} for r in oor.head(25).to_dict(orient="records")]
     reading = prepared.reading
     columns_read = [] if reading is None else [
-        {"column": r["column"], "read_as": r["drift_name"] or r["role"], "family": r["family"],
+        {"column": r["column"], "read_as": label(r["drift_name"]) if r["drift_name"] else r["role"],
+         "family": r["family"],
          "play_type": r["play_type"], "unit": r["unit"], "files": int(r["files"]), "why": r["note"] or r["how"]}
         for r in reading.summary().to_dict(orient="records")]
-    return {"excluded_summary": excl, "missing": missing.to_dict(orient="records"),
+    missing = [{**r, "feature": label(r["feature"])} for r in missing.to_dict(orient="records")]
+    return {"excluded_summary": excl, "missing": missing,
             "ignored_columns": list(prepared.ignored_columns), "columns_read": columns_read,
             "intake_notes": list(reading.notes) if reading is not None else [],
             "files": [str(f) for f in prepared.files], "out_of_reference": out_of_reference,

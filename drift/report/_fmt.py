@@ -12,18 +12,18 @@ __all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", 
 
 
 def _missing(v) -> bool:
-    return v is None or (isinstance(v, float) and math.isnan(v))
+    return v is None or v != v  # NaN is the one value unequal to itself
 
 
 def sig(v, digits=3) -> str:
     """``v`` to ``digits`` significant digits, without scientific notation for ordinary sizes."""
-    if _missing(v):
+    if v is None or v != v:
         return ""
     v = float(v)
     if v == 0:
         return "0"
-    decimals = max(digits - 1 - int(math.floor(math.log10(abs(v)))), 0)
-    return f"{v:,.{decimals}f}"
+    decimals = digits - 1 - math.floor(math.log10(abs(v)))
+    return f"{v:,.{decimals if decimals > 0 else 0}f}"
 
 
 def percent(v, digits=2) -> str:
@@ -59,15 +59,29 @@ def strength(p_value, z, alpha) -> str:
     return next(words for cut, words in _GRADES if z >= cut)
 
 
+def _value_kind(name) -> str:
+    if name.startswith("ppp_"):
+        return "ppp"
+    if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
+        return "share"
+    if name.endswith("_pct"):  # percentages already on a 0-100 scale
+        return "pct"
+    return "plain"
+
+
+_KINDS: dict = {}
+
+
 def feature_value(name, v) -> str:
     """A feature in its own units: shares and 0-1 shooting figures as %, rates as printed, ppp to 2 dp."""
-    if _missing(v):
+    if v is None or v != v:
         return ""
-    if name.startswith("ppp_"):
+    kind = _KINDS.get(name) or _KINDS.setdefault(name, _value_kind(name))
+    if kind == "ppp":
         return f"{v:.2f}"
-    if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
+    if kind == "share":
         return percent(v, 3)
-    if name.endswith("_pct"):  # percentages already on a 0-100 scale
+    if kind == "pct":
         return f"{sig(v, 3)}%"
     return sig(v, 3)
 

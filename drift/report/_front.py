@@ -26,14 +26,14 @@ def build_front(analysis, b) -> dict:
         ("players compared", f"{len(latest_moves):,}"),
         ("role changes beyond noise", f"{count('changed'):,}"),
         ("unsettled (between two roles)", f"{count('unsettled'):,}"),
-        ("moved within their role", f"{count('shifted'):,}"),
+        ("shifted within their role (beyond noise)", f"{count('shifted'):,}"),
         ("steady", f"{count('steady'):,}"),
         ("changed teams over the summer", f"{int(latest_moves['traded'].sum()) if len(latest_moves) else 0:,}"),
         ("mid-season trades (qualifying stints)", f"{len(trades):,}"),
     ]
     latest_rows, latest_note = capped(latest_moves, b)
     earlier_rows, earlier_note = capped(earlier, b)
-    trade_rows, trade_note = capped(trades, b, csv="stints.csv", comps=False)
+    trade_rows, trade_note = capped(trades, b, csv="stints", comps=False)
     requested_rows, requested_note = capped(b.requested, b)
     compare = analysis.config.compare
     n_skip = int(sum(1 for r in latest_rows if r["note"]))
@@ -44,4 +44,6 @@ def build_front(analysis, b) -> dict:
         "earlier_moves": earlier_rows, "earlier_note": earlier_note,
         "requested": requested_rows, "requested_note": requested_note,
         "requested_label": f"{compare[0]} → {compare[1]}" if compare else "",
+        "totals": {"tbl-latest": len(latest_moves), "tbl-latest-trades": len(trades), "tbl-earlier": len(earlier),
+                   "tbl-requested": len(b.requested)},
     }

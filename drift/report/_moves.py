@@ -6,12 +6,12 @@ attributes the page's filters read (team, role, season pair, status, traded).
 
 from __future__ import annotations
 
-__all__ = ["MAX_ROWS", "TEAM_ROWS", "pair_label", "move_rows", "capped", "build_method_moves", "STATUS_ORDER"]
+from drift.report._fmt import _KINDS, _value_kind, sig  # plain functions, no heavy import
+
+__all__ = ["MAX_ROWS", "pair_label", "move_rows", "capped", "build_method_moves", "STATUS_ORDER"]
 
 #: Longest table printed in full; longer ones show their strongest rows and point to the CSV.
 MAX_ROWS = 250
-#: Longest table on a team page (a team page is one of many).
-TEAM_ROWS = 20
 STATUS_ORDER = {"changed": 0, "unsettled": 1, "shifted": 2, "steady": 3}
 
 
@@ -36,13 +36,12 @@ def pair_label(row, season_index) -> tuple[str, str]:
 
 
 def _change_text(name, change):
-    from drift.report._fmt import sig
-
-    if name.startswith("ppp_"):
+    kind = _KINDS.get(name) or _KINDS.setdefault(name, _value_kind(name))
+    if kind == "ppp":
         return f"{change:+.2f} points per possession"
-    if name.startswith("share_") or name in {"ts_pct", "efg_pct"} or name.endswith("_rate"):
+    if kind == "share":
         return f"{100 * change:+.1f} pp"  # percentage points ("pts" read as points scored)
-    if name.endswith("_pct"):
+    if kind == "pct":
         return f"{change:+.1f} pp"
     return f"{'+' if change >= 0 else ''}{sig(change, 2)}"
 
@@ -91,14 +90,14 @@ def strongest_first(moves):
     return moves.assign(_o=order).sort_values(["_o", "p_value"], kind="stable").drop(columns="_o")
 
 
-def capped(moves, b, *, limit=None, csv="moves.csv", comps=True, order=True):
+def capped(moves, b, *, limit=None, csv="moves", comps=True, order=True):
     """(rows, note): at most ``limit`` (default :data:`MAX_ROWS`) rows, strongest first unless
-    ``order`` is False, and a sentence naming the CSV when the table was cut."""
+    ``order`` is False, and a sentence naming the table (``csv`` in the run's format) when it was cut."""
     limit = MAX_ROWS if limit is None else limit
     ordered = strongest_first(moves) if order else moves
     note = ""
     if len(ordered) > limit:
-        note = (f"Showing the {limit:,} strongest of {len(ordered):,} rows; every row is in {csv}.")
+        note = (f"Listing the {limit:,} strongest of {len(ordered):,} moves; every one is in {csv}.{b.ext}.")
         ordered = ordered.head(limit)
     return move_rows(ordered, b, comps=comps), note
 

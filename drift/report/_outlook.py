@@ -34,7 +34,7 @@ def build_outlook(analysis, b) -> dict:
     """Context fields ``outlook``, ``outlook_note``, ``backtest``, ``calibration``, ``backtest_note``."""
 
     if analysis.outlook is None:
-        return {"outlook": [], "outlook_note": "Too few returning players to learn year-to-year "
+        return {"outlook": [], "outlook_total": 0, "outlook_note": "Too few returning players to learn year-to-year "
                 "role stability from (30 pairs of consecutive seasons are needed).",
                 "backtest": [], "calibration": [], "backtest_note": ""}
     out = analysis.outlook
@@ -57,12 +57,13 @@ def build_outlook(analysis, b) -> dict:
         # a bounded page: the likeliest changes first, the rest in outlook.csv
         "outlook": [{**r, "anchor": b.player_anchor.get(r["player_id"], "")}
                     for r in outlook_rows(out.head(OUTLOOK_MAX), analysis.model)],
+        "outlook_total": int(len(out)),
         "outlook_note": (
             f"For the {len(out)} players placed in {latest}: the chance of each role next season, learned "
             "from how often this data's returning players kept or changed role (by role, by how close "
             "they sat to another role, and by the minutes behind their history). A 70% chance of staying "
-            "means 3 players in 10 like him changed role. The spread is how far such forecasts of the "
-            "position in role space typically missed. It knows nothing of trades, injuries or coaching "
+            "means 3 players in 10 like him changed role. The typical miss is how far such forecasts of a "
+            "player's place among the roles missed on past seasons. It knows nothing of trades, injuries or coaching "
             "changes to come."),
         "backtest": seasons.to_dict(orient="records"),
         "calibration": analysis.backtest.calibration.to_dict(orient="records"),

@@ -92,6 +92,14 @@ def _role_rule(model) -> str:
             + (f"; {weak} of the counts tried have a role below it." if weak else "."))
 
 
+def _role_rule_plain(model) -> str:
+    k = len(model.role_ids_)
+    if model.roles != "auto":
+        return f"{k} roles, a number fixed by the settings."
+    return (f"{k} roles: the number past which splitting the reference players further stops giving groups "
+            f"clearly tighter than random data of the same spread would (up to {model.max_roles} tried).")
+
+
 def _self_check(analysis) -> str:
     check = getattr(analysis, "self_check", None)
     if check is None:
@@ -113,6 +121,7 @@ def build_choice(analysis, b) -> dict:
     alignment = analysis.alignment
     return {
         "component_rule": _component_rule(model), "role_rule": _role_rule(model),
+        "role_rule_plain": _role_rule_plain(model),
         "components_chart": Markup(charts.components_chart(comp)),
         "roles_chart": Markup(charts.roles_chart(rd)) if len(rd) > 1 else Markup(""),
         "components_table": comp.head(max(q + 3, 8)).to_dict(orient="records"),

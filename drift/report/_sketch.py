@@ -1,14 +1,15 @@
 """Small hand-written SVGs for the player pages: one shared role-map background, one path per player.
 
-The background (role centres and axis names) is drawn once as an SVG ``<symbol>``; each player's
-path ``<use>``-s it, so hundreds of player pages stay small.
+The background (role centres and axis names) is drawn once as an SVG ``<symbol>`` in the front
+page; each player's path (:func:`path_points`, drawn by the page script) ``<use>``-s it, so a page
+carries only its own points.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["MapFrame", "map_frame", "map_symbol", "player_path"]
+__all__ = ["MapFrame", "map_frame", "map_symbol", "path_points"]
 
 _W, _H, _PAD = 320, 220, 18
 
@@ -28,6 +29,14 @@ class MapFrame:
         x = _PAD + (pc1 - self.x0) / (self.x1 - self.x0) * (_W - 2 * _PAD)
         y = _H - _PAD - (pc2 - self.y0) / (self.y1 - self.y0) * (_H - 2 * _PAD)
         return min(max(x, 2.0), _W - 2.0), min(max(y, 2.0), _H - 2.0)
+
+    def xy_many(self, pc1, pc2):
+        """:meth:`xy` of whole arrays: (x list, y list), rounded to 0.1."""
+        import numpy as np
+
+        x = _PAD + (np.asarray(pc1, float) - self.x0) / (self.x1 - self.x0) * (_W - 2 * _PAD)
+        y = _H - _PAD - (np.asarray(pc2, float) - self.y0) / (self.y1 - self.y0) * (_H - 2 * _PAD)
+        return (np.round(np.clip(x, 2.0, _W - 2.0), 1).tolist(), np.round(np.clip(y, 2.0, _H - 2.0), 1).tolist())
 
 
 def map_frame(pool_scores, centroids, x_label, y_label) -> MapFrame:
@@ -59,20 +68,53 @@ def map_symbol(frame: MapFrame, centroids, role_ids, colours) -> str:
             f'viewBox="0 0 {_W} {_H}">{"".join(parts)}</symbol></svg>')
 
 
-def player_path(frame: MapFrame, seasons, pc1, pc2, roles, name) -> str:
-    """One player's seasons on the role map, joined in order, each labelled with its season's end year."""
-    from markupsafe import escape
+#: where a season's label may sit around its marker (dx, dy of the text's left baseline), nearest first
+_SPOTS = ((5, -4), (5, 10), (-15, -4), (-15, 10), (-5, -8), (-5, 16), (9, 3), (-19, 3),
+          (5, -14), (-15, -14), (5, 20), (-15, 20), (15, -9), (-25, -9), (15, 15), (-25, 15))
+_LABEL_W, _LABEL_H = 11.0, 8.0
 
-    pts = [frame.xy(a, b) for a, b in zip(pc1, pc2)]
-    line = " ".join(f"{x:.1f},{y:.1f}" for x, y in pts)
-    marks = []
-    for i, ((x, y), season, role) in enumerate(zip(pts, seasons, roles)):
-        last = i == len(pts) - 1
-        marks.append(f'<circle cx="{x:.1f}" cy="{y:.1f}" r="{4.5 if last else 3}" fill="{"#111" if last else "#fff"}" '
-                     f'stroke="#111"><title>{escape(season)}: {escape(role)}</title></circle>'
-                     f'<text x="{x + 5:.1f}" y="{y - 4:.1f}" font-size="8" fill="#111">{escape(str(season)[-2:])}</text>')
-    alt = (f"{name}'s seasons on the role map: " +
-           ", ".join(f"{s} in {r}" for s, r in zip(seasons, roles)))
-    return (f'<svg class="path" viewBox="0 0 {_W} {_H}" role="img" aria-label="{escape(alt)}">'
-            f'<title>{escape(alt)}</title><use href="#rolemap"/>'
-            f'<polyline points="{line}" fill="none" stroke="#111" stroke-width="1.2"/>{"".join(marks)}</svg>')
+
+def _place_labels(pts):
+    """Label positions that keep every season's label apart from the others and from the markers.
+
+    Greedy, in season order: the nearest free spot around the marker; when all are taken (many
+    seasons on one spot) the label goes in a column beside the marker, with a leader line.
+    """
+    placed, out = [], []
+    for x, y in pts:
+        spot = None
+        for dx, dy in _SPOTS:
+            x0, y1 = x + dx, y + dy
+            x1, y0 = x0 + _LABEL_W, y1 - _LABEL_H
+            if x0 < 1 or x1 > _W - 1 or y0 < 1 or y1 > _H - 1:
+                continue
+            clear = True
+            for b in placed:
+                if x0 < b[2] and b[0] < x1 and y0 < b[3] and b[1] < y1:
+                    clear = False
+                    break
+            if clear:
+                for px, py in pts:
+                    if x0 - 2 < px < x1 + 2 and y0 - 2 < py < y1 + 2:
+                        clear = False
+                        break
+            if clear:
+                spot = (x0, y1)
+                break
+        if spot is None:  # crowded: stack below the lowest label near this marker
+            near = [b[3] for b in placed if abs(b[0] - x) < 40 and abs(b[1] - y) < 60]
+            spot = (min(x + 12, _W - _LABEL_W - 1), min(max(near, default=y) + _LABEL_H, _H - 2))
+        placed.append((spot[0], spot[1] - _LABEL_H, spot[0] + _LABEL_W, spot[1]))
+        out.append(spot)
+    return out
+
+
+def path_points(xs, ys, seasons, roles, names) -> list:
+    """One player's seasons on the small map: ``[x, y, label_x, label_y, label, title]`` each, in season
+    order (the script joins them and marks the last). ``xs, ys`` are map positions
+    (:meth:`MapFrame.xy_many`). The label is the season's last two characters, placed clear of the
+    other labels; the title names the season and its role."""
+    pts = list(zip(xs, ys))
+    spots = _place_labels(pts)
+    return [[x, y, round(lx, 1), round(ly, 1), str(season)[-2:], f"{season}: {role} {names.get(role, '')}"]
+            for (x, y), (lx, ly), season, role in zip(pts, spots, seasons, roles)]

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
-__all__ = ["CAUTIONS", "MAX_PLAYER_PAGES", "ReportContext", "Basis", "basis", "paged_players"]
+__all__ = ["CAUTIONS", "PLAYER_LIST", "ReportContext", "Basis", "basis"]
 
 CAUTIONS = (
     "This report describes playstyle: how a player's possessions, rates and shot profile sit "
@@ -20,8 +20,8 @@ CAUTIONS = (
 )
 
 
-#: Most player pages one report carries; above it pages go to the players the front page needs.
-MAX_PLAYER_PAGES = 600
+#: Most rows of the front page's list of players (every player has a page; search finds each one).
+PLAYER_LIST = 1000
 
 
 @dataclass(frozen=True)
@@ -40,14 +40,19 @@ class Basis:
     consecutive, requested : DataFrame
         Moves between a player's consecutive qualifying seasons; moves of the requested
         comparison (empty without one).
-    comparables : dict
-        (player_id, season) -> "Name (season), ..." of the three nearest other players.
+    comparables : mapping
+        ``.get((player_id, season))`` -> "Name (season), ..." of the three nearest other players.
     pool_mask : ndarray of bool
         Placements that belong to the reference pool.
     player_anchor, team_anchor : dict
-        Player id / team code -> the HTML id of its page, for those that have one.
+        Player id / team code -> the id of its page (every placed player and every team has one).
     alpha : float
         The level for "beyond noise".
+    frame : drift.report._sketch.MapFrame
+        Where component scores land on the small role map of the player pages.
+    ext : str
+        File extension of the run's tables ("csv", or "parquet" with ``--format parquet``),
+        for the sentences that name them.
     """
 
     names: dict
@@ -62,6 +67,10 @@ class Basis:
     player_anchor: dict
     team_anchor: dict
     alpha: float
+    frame: object = None
+    ext: str = "csv"
+    #: work two builders share, done once (team rosters and minutes; see drift.report._teams)
+    memo: dict = field(default_factory=dict, compare=False, repr=False)
 
     def role(self, rid) -> dict:
         """A role as the templates show it: id, name, colour and css (its class for the colour)."""
@@ -71,36 +80,42 @@ class Basis:
                 "css": slug("c-", rid)}
 
 
-def _comparable_text(comparables, n=3):
-    if comparables is None or comparables.empty:
-        return {}
-    top = comparables[comparables["rank"] <= n]
-    text = top["comp_player"].astype(str) + " (" + top["comp_season"].astype(str) + ")"
-    return text.groupby([top["player_id"], top["season"]]).agg(", ".join).to_dict()
+class _Comparables:
+    """(player id, season) -> "Name (season), ..." of the ``n`` nearest other players, formatted on demand
+    (the front page asks for a few hundred of a pool's rows)."""
+
+    def __init__(self, comparables, n=3):
+        self.rows = {}
+        if comparables is None or comparables.empty:
+            return
+        top = comparables[comparables["rank"] <= n].sort_values("rank", kind="stable")
+        names, seasons = top["comp_player"].astype(str).tolist(), top["comp_season"].astype(str).tolist()
+        for key, name, season in zip(zip(top["player_id"].tolist(), top["season"].tolist()), names, seasons):
+            self.rows.setdefault(key, []).append(f"{name} ({season})")
+
+    def get(self, key, default=""):
+        found = self.rows.get(key)
+        return ", ".join(found) if found else default
 
 
-def paged_players(analysis, consecutive, latest_pair, limit=None):
-    """Player ids that get a page: all placed players, or on large leagues the ones the outputs need.
+def _frame(analysis, pool_mask):
+    """The small role map's frame: the pool's middle 98% and the role centres on components 1 and 2."""
+    import numpy as np
 
-    Above ``limit`` players, pages go (strongest evidence first, up to ``limit``) to players with a
-    move beyond noise or an unsettled label in the latest season pair, in the requested comparison
-    or at a mid-season trade of the latest season, then to the latest pair's other players.
-    """
-    import pandas as pd
+    from drift.report import _sketch as sketch
+    from drift.report._roles import axis_label
 
-    limit = MAX_PLAYER_PAGES if limit is None else limit
-    players = pd.unique(analysis.placements["player_id"])
-    if len(players) <= limit:
-        return list(players)
-    moves = pd.concat([m for m in (analysis.moves, analysis.stints) if len(m)], ignore_index=True)
-    latest = latest_pair[1] if latest_pair else None
-    wanted = moves[(moves["season_to"] == latest) | (moves["kind"] == "requested")]
-    wanted = wanted.assign(_steady=wanted["status"] == "steady").sort_values(["_steady", "p_value"], kind="stable")
-    return list(pd.unique(wanted["player_id"]))[:limit]
+    model, pl = analysis.model, analysis.placements
+    has_pc2 = "pc2" in pl
+    scores = np.column_stack([pl["pc1"], pl["pc2"] if has_pc2 else np.zeros(len(pl))])
+    cents = np.asarray(model.centroids_)[:, :2] if model.centroids_.shape[1] > 1 else np.column_stack(
+        [model.centroids_[:, 0], np.zeros(len(model.role_ids_))])
+    return sketch.map_frame(scores[pool_mask], cents, axis_label(model, 0, n=1, short=True),
+                            axis_label(model, 1, n=1, short=True) if has_pc2 else "")
 
 
-def basis(analysis) -> Basis:
-    """The shared facts of ``analysis`` (an :class:`~drift.api.Analysis`)."""
+def basis(analysis, *, ext="csv") -> Basis:
+    """The shared facts of ``analysis`` (an :class:`~drift.api.Analysis`); ``ext`` names its tables' format."""
     from drift.report import _charts as charts
     from drift.report._fmt import slug
 
@@ -109,15 +124,16 @@ def basis(analysis) -> Basis:
     consecutive = moves[kind == "consecutive"] if kind is not None else moves
     seasons = sorted(map(str, placements["season"].unique()))
     latest_pair = tuple(seasons[-2:]) if len(seasons) > 1 else None
-    teams = sorted({t for value in placements["team"].astype(str) for t in value.split("/")})
+    teams = sorted({t for value in placements["team"].astype(str).unique() for t in value.split("/")})
+    pool_mask = placements["season"].isin(model.reference_seasons_).to_numpy()
     return Basis(
         names=dict(zip(model.role_ids_, model.role_names_)), colours=charts.colour_of(model.role_ids_),
         seasons=seasons, season_index={s: i for i, s in enumerate(seasons)}, latest_pair=latest_pair,
         consecutive=consecutive, requested=moves[kind == "requested"] if kind is not None else moves,
-        comparables=_comparable_text(analysis.comparables),
-        pool_mask=placements["season"].isin(model.reference_seasons_).to_numpy(),
-        player_anchor={p: slug("p-", p) for p in paged_players(analysis, consecutive, latest_pair)},
+        comparables=_Comparables(analysis.comparables),
+        pool_mask=pool_mask, player_anchor={p: slug("p-", p) for p in placements["player_id"].unique()},
         team_anchor={t: slug("t-", t) for t in teams}, alpha=analysis.config.alpha,
+        frame=_frame(analysis, pool_mask), ext=ext,
     )
 
 
@@ -145,8 +161,8 @@ class ReportContext:
         The limits of the report, shown on the front page and every player page.
     summary : list of (label, value) pairs
         Headline counts over every season.
-    player_pages_note : str
-        On large leagues, which players got a page and why ("" when every player has one).
+    player_list_note : str
+        How many players the list shows of how many, and which ("" when it lists every one).
     latest_label : str
         "A → B" of the latest two seasons ("" with one season).
     latest_figures : list of (label, value) pairs
@@ -156,31 +172,27 @@ class ReportContext:
         moves of earlier pairs that are not steady; the requested comparison.
     latest_note, latest_trades_note, earlier_note, requested_note : str
         A sentence naming the CSV when a table was cut to its strongest rows, else "".
+    totals : dict
+        Table id -> rows before any cut (the filter counters say "N shown of the 250 listed (289 in all)").
     latest_skips : int
         Rows of ``latest_moves`` whose player skipped a season.
     requested_label : str
         "A → B" of the requested comparison, or "".
-    players : list of dict
-        One player page each: ``anchor, id, name, team, role``, ``timeline`` (per season:
-        season, team, placed; placed seasons: role, membership, second, games, minutes, outside,
-        stints ("stints: ELM R4 → BRN R5" or ""), status, words; seasons left out: why),
-        ``path`` (SVG Markup), ``profile_season``, ``profile`` (label, value, role_avg,
-        percentile, bar, defining), ``moves`` and ``trades`` (move rows), ``comparables``
-        (player, anchor, season, team, role) and ``outlook`` (columns, rows) or None.
     player_index : list of dict
-        anchor, player, season, team, role, seasons, status, traded: one row per page.
+        anchor, player, season, team, role, seasons, status, traded: one row per listed player
+        (at most :data:`PLAYER_LIST`; player and team pages themselves are page documents in
+        ``report-data/``, see :mod:`drift.report._bundle`).
     map_symbol : Markup
         The shared role-map background the player paths use.
-    search_index : Markup
-        JSON list of [label, anchor, kind, keys] for the search box (exact key matches rank
-        first; safe inside a script element).
-    teams : list of dict
-        One team page each: ``anchor, team``, ``mix`` (per season, latest first: season,
-        players, roles with share and text), ``movement`` (per pair: pair, arrivals,
-        departures, stayed (on the roster in both seasons, placed in one), n_arrivals (uncut),
-        note; each player, anchor, moved, other, role, status, words; arrivals and departures
-        judged on every season row, placed or not), ``trades`` and
-        ``changed`` (move rows) with ``trades_note`` and ``changed_note`` (set when cut).
+    pages_data : Markup
+        JSON for the page script (:func:`drift.report._bundle.shared`): role names and colour
+        classes, page table headings and notes, the data folder.
+    players_total : int
+        Placed players (the list may show fewer; each has a page).
+    data_dir : str
+        The folder of the page chunks and the search index, beside ``report.html``.
+    ext : str
+        Extension of the run's tables ("csv" or "parquet"), for sentences that name them.
     team_index : list of dict
         anchor, team, players (latest season), changed (latest pair), arrivals (latest pair, uncut).
     roles : list of dict
@@ -191,7 +203,9 @@ class ReportContext:
     components_chart, roles_chart, drift_chart, moves_chart, reliability_chart : Markup
         SVG charts ("" when there is nothing to draw).
     component_rule, role_rule : str
-        How the counts were chosen, in a sentence.
+        How the counts were chosen, in a sentence naming the methods (behind a click).
+    role_rule_plain : str
+        The role count in plain words, shown first.
     components_table, roles_table : list of dict
         Per-count diagnostics.
     alignment : list of dict or None
@@ -206,6 +220,8 @@ class ReportContext:
         first: player_id, player, team, season, role, projected, stay, change, likeliest
         (the three likeliest roles with their chances), spread, seasons, minutes
         (:func:`drift.report._outlook.outlook_rows`).
+    outlook_total : int
+        Players in the outlook (the table lists at most :data:`drift.report._outlook.OUTLOOK_MAX`).
     outlook_note : str
         What the outlook is and is not, in a few sentences.
     backtest : list of dict
@@ -245,12 +261,13 @@ class ReportContext:
     reference_seasons: list
     cautions: tuple
     summary: list
-    player_pages_note: str
+    player_list_note: str
     latest_label: str
     latest_figures: list
     latest_moves: list
     latest_note: str
     latest_skips: int
+    totals: dict
     latest_trades: list
     latest_trades_note: str
     earlier_moves: list
@@ -258,11 +275,12 @@ class ReportContext:
     requested: list
     requested_note: str
     requested_label: str
-    players: list
     player_index: list
     map_symbol: object
-    search_index: object
-    teams: list
+    pages_data: object
+    players_total: int
+    data_dir: str
+    ext: str
     team_index: list
     roles: list
     role_map: object
@@ -273,6 +291,7 @@ class ReportContext:
     reliability_chart: object
     component_rule: str
     role_rule: str
+    role_rule_plain: str
     components_table: list
     roles_table: list
     alignment: list | None
@@ -289,6 +308,7 @@ class ReportContext:
     out_of_reference: list
     out_of_reference_total: int
     outlook: list
+    outlook_total: int
     outlook_note: str
     backtest: list
     calibration: list

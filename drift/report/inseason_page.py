@@ -48,11 +48,14 @@ class InseasonContext:
 
 
 def _drivers(row, names):
+    """"spot-up share +3.0 pp, ..." in each feature's own units, as on the report's pages."""
+    from drift.report._moves import _change_text
+
     parts = []
     for n in (1, 2, 3):
         f = row.get(f"driver_{n}")
         if isinstance(f, str):
-            parts.append(f"{names.get(f, f)} {row[f'driver_{n}_change']:+.3g}")
+            parts.append(f"{names.get(f, f)} {_change_text(f, row[f'driver_{n}_change'])}")
     return ", ".join(parts)
 
 

@@ -1,4 +1,4 @@
-"""Build the context from the section builders, and render it with jinja2."""
+"""Build the context from the section builders, render the front page, write the report folder."""
 
 from __future__ import annotations
 
@@ -12,19 +12,20 @@ def _sections():
     """The section builders, in page order."""
     from drift.report import _data, _front, _moves, _outlook, _players, _roles, _teams
 
-    return (_data.build_summary, _front.build_front, _players.build_players, _players.build_search,
-            _teams.build_teams, _roles.build_roles, _moves.build_method_moves, _data.build_drift,
-            _outlook.build_outlook, _roles.build_choice, _data.build_features, _data.build_data)
+    return (_data.build_summary, _front.build_front, _players.build_index, _teams.build_teams,
+            _roles.build_roles, _moves.build_method_moves, _data.build_drift, _outlook.build_outlook,
+            _roles.build_choice, _data.build_features, _data.build_data)
 
 
-def build_context(analysis):
-    """Shape an :class:`~drift.api.Analysis` into a :class:`ReportContext`.
+def build_context(analysis, shared=None):
+    """Shape an :class:`~drift.api.Analysis` into a :class:`ReportContext` (the front page).
 
-    Every builder returns a dict of context fields; a field set twice is a bug.
+    Every builder returns a dict of context fields; a field set twice is a bug. ``shared`` is the
+    :class:`~drift.report.context.Basis` when the caller has one already.
     """
     from drift.report.context import CAUTIONS, ReportContext, basis
 
-    shared = basis(analysis)
+    shared = shared or basis(analysis)
     values = {"cautions": CAUTIONS}
     for build in _sections():
         part = build(analysis, shared)
@@ -33,6 +34,16 @@ def build_context(analysis):
             raise RuntimeError(f"report fields {sorted(clash)} set twice (by {build.__name__})")
         values.update(part)
     return ReportContext(**values)
+
+
+def build_pages(analysis, shared=None):
+    """(player pages, team pages): anchor -> page document (see :mod:`drift.report._bundle`)."""
+    from drift.report.context import basis
+    from drift.report._players import build_player_pages
+    from drift.report._teams import build_team_pages
+
+    shared = shared or basis(analysis)
+    return build_player_pages(analysis, shared, shared.frame), build_team_pages(analysis, shared)
 
 
 @functools.cache
@@ -50,13 +61,35 @@ def template_environment():
 
 
 def render_report(context) -> str:
-    """Render the report page from its context."""
+    """Render the front page (``report.html``) from its context."""
     values = {f.name: getattr(context, f.name) for f in fields(context)}
     return template_environment().get_template("report.html").render(**values)
 
 
-def write_report(analysis, path):
-    """Build the context, render it and write ``path``."""
+def write_report(analysis, folder, *, ext="csv") -> list:
+    """Write the report into ``folder``: ``report.html`` and ``report-data/`` (see :mod:`drift.report._bundle`).
+
+    ``ext`` is the format of the run's tables ("csv" or "parquet"), named where the report points to
+    them. Returns the files written, relative to ``folder``.
+    """
+    import gc
     from pathlib import Path
 
-    Path(path).write_text(render_report(build_context(analysis)), encoding="utf-8")
+    from drift.report._bundle import write_pages
+    from drift.report.context import basis
+
+    folder = Path(folder)
+    # pages are millions of small lists that form no cycles: the cyclic collector would only rescan them
+    # again and again (a third of the build on a large pool), so it rests while they are made
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        shared = basis(analysis, ext=ext)
+        players, teams = build_pages(analysis, shared)
+        written = write_pages(folder, players=players, teams=teams, b=shared, analysis=analysis)
+        del players, teams
+        (folder / "report.html").write_text(render_report(build_context(analysis, shared)), encoding="utf-8")
+    finally:
+        if collecting:
+            gc.enable()
+    return ["report.html", *written]
