@@ -12,8 +12,13 @@ from conftest import DEMO, small_table
 
 from drift.cli import main
 
-OUTPUTS = {"report.html", "model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
+OUTPUTS = {"report.html", "report-data", "model.json", "placements.csv", "moves.csv", "excluded.csv", "stints.csv",
            "role_drift.csv", "comparables.csv", "features.csv"}
+
+
+def _files(folder):
+    """Every file of an output folder (the report's chunks too), relative, without the marker."""
+    return sorted(str(p.relative_to(folder)) for p in folder.rglob("*") if p.is_file() and p.name != ".drift-output.json")
 
 
 def test_run_writes_every_output(demo_run, capsys):
@@ -41,7 +46,8 @@ def test_in_process_outputs_match_the_cli_run(demo_run, demo_analysis, tmp_path)
     again = tmp_path / "again"
     again.mkdir()
     write_outputs(demo_analysis, again)
-    for name in OUTPUTS:
+    assert _files(again) == _files(out)
+    for name in _files(out):
         assert (again / name).read_bytes() == (out / name).read_bytes(), name
 
 
@@ -54,7 +60,8 @@ def test_outputs_are_byte_identical_on_rerun(demo_run, tmp_path):
     _, out = demo_run
     again = tmp_path / "again"
     assert main(["run", str(DEMO), "--out", str(again), "--compare", *DEMO_COMPARE, "--quiet"]) == 0
-    for name in OUTPUTS:
+    assert _files(again) == _files(out)
+    for name in _files(out):
         assert (again / name).read_bytes() == (out / name).read_bytes(), name
 
 

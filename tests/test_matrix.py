@@ -168,6 +168,7 @@ ARGUMENT_CASES = [
     Case("alpha 1", lambda w, t: _run(w, t, "--alpha", "1"), r"alpha"),
     Case("alpha negative", lambda w, t: _run(w, t, "--alpha=-0.5"), r"alpha"),
     Case("seed text", lambda w, t: _run(w, t, "--seed", "abc"), r"seed='abc' must be a whole number"),
+    Case("format unknown", lambda w, t: _run(w, t, "--format", "xls"), r"format='xls' must be one of csv, parquet"),
     Case("place against alpha nan", lambda w, t: _place(
         w, t, None, w.one_file, t / "early", "--against", str(w.folder), "--alpha", "nan"),
          r"alpha=nan must be a number between 0 and 1"),

@@ -143,7 +143,11 @@ def test_report_shows_the_outlook_and_its_backtest(demo_run):
     page = html_lib.unescape((out / "report.html").read_text(encoding="utf-8"))
     assert 'id="outlook"' in page and outlook["player"].iloc[0] in page
     assert "How the outlook fared" in page and "change decile" in page
-    assert page.count("Outlook for next season") == len(outlook)  # one per player placed in the latest season
-    # his page shows his keep and change chances as outlook.csv has them
+    pages = "".join(p.read_text(encoding="utf-8") for p in (out / "report-data").glob("p*.js"))
+    assert pages.count("Outlook for next season") == len(outlook)  # one per player placed in the latest season
+    # his page shows his keep and change chances as outlook.csv has them, his likeliest role named
     first = outlook.iloc[0]
-    assert f"{percent(first['stay_prob'])}</td><td>{percent(first['change_prob'])}" in page
+    assert f'["r","{first["projected_role"]}"],"{percent(first["stay_prob"])}","{percent(first["change_prob"])}"' in pages
+    assert {"role_name", "projected_role_name"} <= set(outlook.columns)
+    names = dict(zip(outlook["projected_role"], outlook["projected_role_name"]))
+    assert all(f"{rid} {name}" in page for rid, name in names.items())

@@ -325,3 +325,54 @@ def test_a_file_listed_in_an_output_marker_is_not_overwritten(tmp_path):
     with pytest.raises(InputError, match="truth/roles.csv of the `drift demo` output"):
         check_output_file(out / "truth" / "roles.csv")
     assert check_output_file(out / "early.csv") == out / "early.csv"  # a new file beside them is fine
+
+
+def test_role_names_stand_beside_role_ids():
+    import pandas as pd
+
+    from drift.output.tables import with_role_names
+
+    frame = pd.DataFrame({"player": ["a", "b"], "role_from": ["R1", "R2"], "role_to": ["R2", None],
+                          "role": ["R1", "R9"], "role_name": ["kept", "kept"]})
+    named = with_role_names(frame, {"R1": "one", "R2": "two"})
+    assert list(named.columns) == ["player", "role_from", "role_from_name", "role_to", "role_to_name", "role",
+                                   "role_name"]
+    assert named["role_from_name"].tolist() == ["one", "two"] and named["role_to_name"].tolist() == ["two", ""]
+    assert named["role_name"].tolist() == ["kept", "kept"] and "role_from_name" not in frame  # never in place
+
+
+@pytest.mark.slow
+def test_parquet_tables_hold_what_the_csvs_hold(demo_run, demo_analysis, tmp_path):
+    """--format parquet: the same tables, columns and values as the CSVs of the same run (read back)."""
+    import io
+
+    import pandas as pd
+
+    from drift.api import write_outputs
+
+    _, out = demo_run
+    write_outputs(demo_analysis, tmp_path, table_format="parquet")
+    names = sorted(p.stem for p in out.glob("*.csv"))
+    assert sorted(p.stem for p in tmp_path.glob("*.parquet")) == names and not list(tmp_path.glob("*.csv"))
+    for name in names:
+        csv = pd.read_csv(out / f"{name}.csv", keep_default_na=False, na_values=[""])
+        parquet = pd.read_parquet(tmp_path / f"{name}.parquet")
+        assert list(parquet.columns) == list(csv.columns), name
+        # CSV gives back text and numbers; the Parquet file keeps the types: compare as CSV would print them
+        again = pd.read_csv(io.StringIO(parquet.to_csv(index=False)), keep_default_na=False,
+                            na_values=[""])
+        pd.testing.assert_frame_equal(again, csv, check_exact=True, obj=name)
+    assert "outlook.parquet" in (tmp_path / "report.html").read_text(encoding="utf-8")
+
+
+def test_parquet_without_pyarrow_is_refused_before_any_work(monkeypatch, tmp_path):
+    import importlib.util
+
+    from drift.api import run
+    from drift.errors import ConfigError
+
+    real = importlib.util.find_spec
+    monkeypatch.setattr(importlib.util, "find_spec", lambda name, *a: None if name == "pyarrow" else real(name, *a))
+    with pytest.raises(ConfigError, match=r"--format parquet needs pyarrow: pip install 'drift\[parquet\]'"):
+        run(tmp_path / "nothing-here", tmp_path / "out", table_format="parquet")
+    assert not (tmp_path / "out").exists()
