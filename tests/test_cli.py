@@ -153,7 +153,7 @@ def test_another_commands_output_is_never_replaced(demo_run, tmp_path, capsys):
 
     report = tmp_path / "drift-report"
     shutil.copytree(demo_run[1], report)
-    before = {p.name: p.read_bytes() for p in report.iterdir()}
+    before = {str(p): p.read_bytes() for p in report.rglob("*") if p.is_file()}
     model = str(demo_run[1] / "model.json")  # the model of another run: this folder is no input
     partial = tmp_path / "2025-26.csv"
     shutil.copy(DEMO / "2024-25.csv", partial)
@@ -162,7 +162,7 @@ def test_another_commands_output_is_never_replaced(demo_run, tmp_path, capsys):
     err = _fails(["place", model, str(DEMO / "2024-25.csv"), "--out", str(report / "placements.csv")], capsys)
     assert "placements.csv of the `drift run` output" in err
     _fails(["demo", "--out", str(report)], capsys)
-    assert {p.name: p.read_bytes() for p in report.iterdir()} == before
+    assert {str(p): p.read_bytes() for p in report.rglob("*") if p.is_file()} == before
 
 
 def test_bad_config(tmp_path, capsys):

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 import pandas as pd
 import pytest
@@ -103,3 +105,9 @@ def test_cli_check_writes_csv_and_page(partial_league, demo_model, tmp_path):
     assert "<script" not in page and "http" not in page.replace("http-equiv", "")
     assert "Too early" in page and "Changed" in page
     assert (out / "inseason_excluded.csv").exists()
+    # the same words and units as the report: role names beside ids, "traded", shares' changes in pp
+    names = dict(zip(demo_model.role_ids_, demo_model.role_names_))
+    assert (checks["role_from"].map(names) == checks["role_from_name"]).all()
+    assert (checks["role_to"].map(names) == checks["role_to_name"]).all()
+    assert ">moved<" not in page and ("traded</span>" in page) == bool(checks["traded"].any())
+    assert " pp" in page and not re.search(r"share [-+]0\.\d\d\d", page)  # not "spot-up share -0.475"

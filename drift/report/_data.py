@@ -82,7 +82,7 @@ def build_data(analysis, b) -> dict:
     missing = prepared.missing[prepared.missing["missing"] > 0]
     oor = placements[placements["out_of_reference"]].sort_values("distance", ascending=False)
     out_of_reference = [{"player": r["player"], "anchor": b.player_anchor.get(r["player_id"], ""),
-                         "season": r["season"], "team": r["team"], "role": r["role"],
+                         "season": r["season"], "team": r["team"], "role": b.role(r["role"]),
                          "distance": f"{r['distance']:.2f}"} for r in oor.head(25).to_dict(orient="records")]
     reading = prepared.reading
     columns_read = [] if reading is None else [

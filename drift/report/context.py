@@ -250,7 +250,7 @@ class ReportContext:
     intake_notes : list of str
         Every unit conversion and intake warning, one line each.
     out_of_reference : list of dict
-        The 25 seasons farthest outside every role (player, anchor, season, team, role, distance).
+        The 25 seasons farthest outside every role (player, anchor, season, team, role (a role dict), distance).
     out_of_reference_total : int
     """
 
