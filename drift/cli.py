@@ -207,7 +207,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--seed", type=_setting("seed", "seed"), help=f"random seed (default {model.seed})")
     run.add_argument("--format", dest="table_format", type=_setting("format", "table_format"), default="csv",
                      metavar="csv|parquet", help="format of the tables: csv (default) or parquet (same columns and "
-                                                  "values; needs pip install 'drift[parquet]')")
+                                                  f"values; needs pyarrow: pip install '{DISTRIBUTION}[parquet]')")
     run.add_argument("--self-check", type=_setting("self_check", "count_from", 0), default=0, metavar="N",
                      help="simulate N leagues like yours and report how often roles and role changes "
                           "are recovered (about one fit each; default 0: off)")

@@ -373,6 +373,6 @@ def test_parquet_without_pyarrow_is_refused_before_any_work(monkeypatch, tmp_pat
 
     real = importlib.util.find_spec
     monkeypatch.setattr(importlib.util, "find_spec", lambda name, *a: None if name == "pyarrow" else real(name, *a))
-    with pytest.raises(ConfigError, match=r"--format parquet needs pyarrow: pip install 'drift\[parquet\]'"):
+    with pytest.raises(ConfigError, match=r"--format parquet needs pyarrow: pip install pyarrow \(or 'role-drift\[parquet\]'\)"):
         run(tmp_path / "nothing-here", tmp_path / "out", table_format="parquet")
     assert not (tmp_path / "out").exists()

@@ -84,10 +84,12 @@ def check_parquet(what="--format parquet"):
     """Refuse Parquet output before any work when pyarrow is missing (it is the optional extra ``parquet``)."""
     import importlib.util
 
+    from drift.constants import DISTRIBUTION
     from drift.errors import ConfigError
 
     if importlib.util.find_spec("pyarrow") is None:
-        raise ConfigError(f"{what} needs pyarrow: pip install 'drift[parquet]', or write CSV (the default)")
+        raise ConfigError(f"{what} needs pyarrow: pip install pyarrow (or '{DISTRIBUTION}[parquet]'), "
+                          "or write CSV (the default)")
 
 
 def write_parquet(frame, path):
