@@ -420,6 +420,7 @@ def test_report_folder_chunks_hold_every_page_once(demo_analysis, pages, tmp_pat
     assert sorted(files[1:]) == sorted(f"report-data/{p.name}" for p in (tmp_path / "report-data").iterdir())
 
 
+@pytest.mark.slow
 def test_report_folder_is_deterministic(demo_analysis, tmp_path):
     from drift.report import write_report
 
