@@ -57,13 +57,13 @@ def csv_run(league, tmp_path_factory):
 def _outputs(folder):
     """Every output file's bytes, the report's source note replaced by a placeholder."""
     found = {}
-    for path in sorted(folder.iterdir()):
+    for path in sorted(p for p in folder.rglob("*") if p.is_file()):  # the report's report-data/ too
         data = path.read_bytes()
         if path.name == "report.html":
             text, n = SOURCE_NOTE.subn("Files read: SOURCE.</p>", data.decode("utf-8"))
             assert n == 1, "the report names its source once"
             data = text.encode("utf-8")
-        found[path.name] = data
+        found[str(path.relative_to(folder))] = data
     return found
 
 
@@ -196,7 +196,7 @@ def test_postgres_gives_the_csv_run_byte_for_byte_and_never_shows_the_password(p
     masked = postgres.url.replace(pgserver.PASSWORD, "***")
     assert f"Files read: {masked} table &#39;seasons&#39;." in (out / "report.html").read_text(encoding="utf-8")
     assert masked in said_check.out
-    for path in out.rglob("*"):  # every output, the marker and the model file included
+    for path in (p for p in out.rglob("*") if p.is_file()):  # every output, the marker and the model file included
         assert pgserver.PASSWORD.encode() not in path.read_bytes(), path.name
     for text in (said.out, said.err, said_check.out, said_check.err):
         assert pgserver.PASSWORD not in text
