@@ -45,11 +45,13 @@ def world(tmp_path_factory):
     table.to_csv(one_file, index=False)
     import warnings
 
-    from drift.errors import ModelQualityWarning
+    from drift.errors import ModelQualityWarning, UnreliableFeatureWarning
 
     with warnings.catch_warnings():
-        # random uniform features have no roles to reproduce: a weak role is expected here
+        # random uniform features have no roles to reproduce and no year-to-year agreement: a weak
+        # role and a feature of near-zero measured reliability are expected here
         warnings.simplefilter("ignore", ModelQualityWarning)
+        warnings.simplefilter("ignore", UnreliableFeatureWarning)
         model = fit_model(prepare(folder), Config(roles=3, components=2))
     path = root / "model.json"
     model.save(path)

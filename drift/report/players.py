@@ -114,7 +114,7 @@ def _left_out(analysis, wanted):
 
 def _timeline(rows, into, b, stint_words=None, left_out=()):
     """His placed seasons and, in season order among them, the seasons left out with the reason."""
-    from drift.report.fmt import membership
+    from drift.report.fmt import membership_between
 
     stint_words = stint_words or {}
     out = [{"season": x["season"], "team": x["team"], "placed": False, "why": x["why"]} for x in left_out]
@@ -122,7 +122,10 @@ def _timeline(rows, into, b, stint_words=None, left_out=()):
         move = into.get((r["player_id"], r["season"]))
         out.append({"season": r["season"], "team": str(r["team"]), "placed": True,
                     "role": b.role(r["role"]),
-                    "membership": membership(r["role_prob"]), "second": r.get("second_role", ""),
+                    "membership": membership_between(r["role_prob"], b.names.get(r["role"], r["role"]),
+                                                     r.get(f"prob_{r.get('second_role', '')}"),
+                                                     b.names.get(r.get("second_role"), "")),
+                    "second": r.get("second_role", ""),
                     "games": int(r["games"]), "minutes": f"{r['minutes']:,.0f}",
                     "outside": bool(r["out_of_reference"]),
                     "stints": stint_words.get((r["player_id"], r["season"]), ""),
