@@ -188,7 +188,7 @@ def summarise(results, seeds):
             "f1_same_leagues_named": float(np.nanmean([r["seeds"][first]["f1"] for r in unl])),
             "beyond_0.01": float(np.nanmean([r["unlisted"]["beyond_0.01"] for r in unl])),
             "warned_leagues": int(sum(bool(r["unlisted"]["unreliable_warning"]) for r in unl)),
-            "warned_ppp_playtype": int(sum(any("playtype7_ppp" in w or "playtype8_ppp" in w
+            "warned_ppp_playtype": int(sum(any("type7_ppp" in w or "type8_ppp" in w
                                                for w in r["unlisted"]["unreliable_warning"]) for r in unl)),
         }
     return summary

@@ -99,23 +99,26 @@ def gap_margins(log_w, ref):
 
 
 def gap_tolerant(x, ks, log_w, refs, *, more_refs, n_init: int = 1, data_n_init: int = 10,
-                 z_clear: float = 2.0, z: float = 1.0):
+                 z_clear: float = 3.0, z: float = 2.0):
     """The one-standard-error choice of k, never decided on a margin within its own uncertainty.
 
-    Walks k upward. A k whose margin is below -``z_clear`` se goes on, one above
-    ``z_clear`` se stops. Nearer than that the first measurement does not decide: the
-    margin is measured again with ``more_refs`` more reference draws (for k and k + 1
-    only) and the data's log W(k), log W(k + 1) refitted from the same extra seeds (the
-    best of all restarts kept, their spread added to the uncertainty, since a K-means
-    optimum can move with its seed). Then the k goes on only if the margin is below -``z``
-    se; a margin still within its uncertainty stops (a further role must show a gain
-    beyond noise to be added).
+    The margin's uncertainty has two parts: the reference sets' (the standard error of
+    :func:`gap_margins`) and the data's (K-means optima move with the seed: the variance over
+    the seeds' fits of log W(k) - log W(k + 1)); the data's log W is the best fit of all seeds.
+    Walks k upward. A k whose margin is below -``z_clear`` times its uncertainty goes on, one
+    above it stops. Nearer than that the first measurement does not decide: the margin is
+    measured again with the reference draws and data fits of ``more_refs`` seeds added (for
+    k and k + 1 only); then the k goes on only if the margin is below -``z`` times its
+    uncertainty, and a margin still within that stops (a further role must show a gain
+    beyond noise to be added; where the evidence is within noise the convention decides,
+    not the noise).
 
     Parameters
     ----------
     ks : sequence of int
         Consecutive counts, starting at 1 (log W(1) is the total spread).
-    log_w : array of shape (len(ks),)
+    log_w : array of shape (S, len(ks))
+        The data's log W(k) fitted from each of S seeds (one row is accepted).
     refs : array of shape (B, len(ks))
         Reference log W of the first draws (see :func:`reference_log_w`).
     more_refs : sequence of int
@@ -127,14 +130,15 @@ def gap_tolerant(x, ks, log_w, refs, *, more_refs, n_init: int = 1, data_n_init:
     -------
     k : int
     margin, margin_se : arrays of shape (len(ks) - 1,)
-        As first measured (before any extra draws).
+        As first measured: the margin on the best fits and its whole uncertainty.
     refined : list of int
         The k whose margin was measured again.
     """
     import numpy as np
 
-    log_w = np.asarray(log_w, float)
-    margin, se = gap_margins(log_w, refs)
+    fits = np.atleast_2d(np.asarray(log_w, float))
+    margin, se = gap_margins(fits.min(axis=0), refs)
+    se = np.sqrt(se ** 2 + _data_var(fits))
     refined = []
     for i in range(len(ks) - 1):
         if margin[i] < -z_clear * se[i]:
@@ -143,15 +147,25 @@ def gap_tolerant(x, ks, log_w, refs, *, more_refs, n_init: int = 1, data_n_init:
             return int(ks[i]), margin, se, refined
         pair = [ks[i], ks[i + 1]]
         extra = np.vstack([reference_log_w(x, pair, seed=sd, n_init=n_init) for sd in more_refs])
-        fits = np.array([log_w[i:i + 2]] + [[_log_inertia(x, k, seed=sd, n_init=data_n_init) for k in pair]
-                                             for sd in more_refs])
-        m2, s2 = gap_margins(fits.min(axis=0), np.vstack([np.asarray(refs)[:, i:i + 2], extra]))
-        # the data's own spread over seeds: the change of log W(k) - log W(k + 1) between fits
-        u = float(np.sqrt(s2[0] ** 2 + np.var(fits[:, 0] - fits[:, 1], ddof=1)))
+        more = np.vstack([fits[:, i:i + 2], [[_log_inertia(x, k, seed=sd, n_init=data_n_init) for k in pair]
+                                             for sd in more_refs]])
+        m2, s2 = gap_margins(more.min(axis=0), np.vstack([np.asarray(refs)[:, i:i + 2], extra]))
         refined.append(int(ks[i]))
-        if m2[0] >= -z * u:
+        if m2[0] >= -z * float(np.sqrt(s2[0] ** 2 + _data_var(more)[0])):
             return int(ks[i]), margin, se, refined
     return int(ks[-1]), margin, se, refined
+
+
+def _data_var(fits):
+    """Uncertainty (variance) of the data's log W(k) - log W(k + 1), shape (K - 1,); 0 with one seed.
+
+    The best of S seeds' fits is used; its uncertainty is taken as the variance of the single
+    fits' differences over S (as for a mean of S fits: the best of them moves less than one).
+    """
+    import numpy as np
+
+    diff = fits[:, :-1] - fits[:, 1:]
+    return diff.var(axis=0, ddof=1) / len(fits) if len(fits) > 1 else np.zeros(diff.shape[1])
 
 
 def gap_pick(ks, gap, s, *, how: str = "first") -> int:

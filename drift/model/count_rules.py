@@ -223,22 +223,26 @@ def _vote(diag, gap_k):
     return agreed[0] if agreed else int(np.median(votes))
 
 
-def _gap_columns(x, ks, fits, diag, *, seed, n_init, n_refs, n_consensus):
+def _gap_columns(x, ks, data_log_w, diag, *, seed, n_init, n_refs, n_consensus):
     """Gap curve, margins and the gap rules' picks; adds their columns to ``diag``.
 
+    ``data_log_w``: k -> log W(k) of the data's fits from each consensus seed.
     Returns ({rule: k} for gap, gap_median and gap_global, the seeds' single picks).
     """
     import numpy as np
 
     gap_ks = [1] + ks + [ks[-1] + 1]
-    log_w = ([_log_inertia(x, 1, seed=seed, n_init=1)] + [float(np.log(fits[k].inertia_)) for k in ks]
-             + [_log_inertia(x, ks[-1] + 1, seed=seed, n_init=n_init)])
+    seeds = range(seed, seed + n_consensus)
+    total = _log_inertia(x, 1, seed=seed, n_init=1)
+    by_seed = np.array([[total] + [data_log_w[k][i] for k in ks] + [_log_inertia(x, ks[-1] + 1, seed=sd, n_init=n_init)]
+                        for i, sd in enumerate(seeds)])
+    log_w = by_seed.min(axis=0)
     median_k, gap_picks, curves = gap_consensus(x, gap_ks, log_w, n_refs=n_refs,
                                                 seeds=range(seed, seed + n_consensus))
     global_k, _, _ = gap_consensus(x, gap_ks, log_w, how="global", curves=curves)
     pooled = np.vstack([c[2] for c in curves])
     tolerant_k, margin, margin_se, refined = gap_tolerant(
-        x, gap_ks, log_w, pooled, more_refs=range(seed + n_consensus, seed + 2 * n_consensus), data_n_init=n_init)
+        x, gap_ks, by_seed, pooled, more_refs=range(seed + n_consensus, seed + 2 * n_consensus), data_n_init=n_init)
     diag["gap"] = (pooled.mean(axis=0) - np.asarray(log_w))[1:-1]
     diag["gap_se"] = (pooled.std(axis=0) * np.sqrt(1 + 1 / len(pooled)))[1:-1]
     diag["gap_margin"] = margin[1:]
@@ -285,9 +289,15 @@ def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
         ks = [rule]
     else:
         ks = list(range(2, int(min(max_roles, len(x) - 1)) + 1))
-    rows, stability, fits = [], {}, {}
+    rows, stability, fits, data_log_w = [], {}, {}, {}
+    # under "auto" each k's K-means runs from the consensus seeds' starts: the best optimum is the
+    # fit (so it hardly moves with --seed) and the spread of log W over seeds is part of the gap
+    # margin's uncertainty
+    fit_seeds = [seed] if isinstance(rule, int) else list(range(seed, seed + n_consensus))
     for k in ks:
-        km = fits[k] = _kmeans(x, k, seed=seed, n_init=n_init)
+        candidates = [_kmeans(x, k, seed=sd, n_init=n_init) for sd in fit_seeds]
+        data_log_w[k] = [float(np.log(max(c.inertia_, 1e-300))) for c in candidates]
+        km = fits[k] = min(candidates, key=lambda c: c.inertia_)
         labels = km.labels_
         row = {"k": k, "inertia": km.inertia_}
         if len(set(labels)) > 1:
@@ -305,7 +315,7 @@ def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
     if isinstance(rule, int):
         diag["chosen"] = True
         return RoleChoice(rule, diag, stability[rule], fits[rule], {})
-    gap_k, gap_picks = _gap_columns(x, ks, fits, diag, seed=seed, n_init=n_init, n_refs=n_refs,
+    gap_k, gap_picks = _gap_columns(x, ks, data_log_w, diag, seed=seed, n_init=n_init, n_refs=n_refs,
                                     n_consensus=n_consensus)
     inside = lambda v: int(min(max(v, ks[0]), ks[-1]))  # noqa: E731
     picks = {
