@@ -338,6 +338,8 @@ PLACE_CASES = [
          r"not a drift model"),
     Case("place model other schema version", lambda w, t: _place(w, t, model=_model_with(
         w, t, _set(["schema_version"], 99))), r"schema_version 99"),
+    Case("place model of an older schema", lambda w, t: _place(w, t, model=_model_with(
+        w, t, _set(["schema_version"], 2))), r"schema_version 2 was written by an older drift.*refit"),
     Case("place model NaN literal", lambda w, t: _place(w, t, model=_nan_model(w, t)),
          r"'within_var'.*NaN|'within_var'.*finite"),
     Case("place model infinite weight", lambda w, t: _place(w, t, model=_model_with(

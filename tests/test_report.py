@@ -297,3 +297,24 @@ def test_p_values_read_at_any_size():
     assert p_text(0.0342) == "0.034" and p_text(2.3e-5) == "2.3e-05" and p_text(1.2e-17) == "< 1e-10"
     assert figures_title(1.0, 0.5, 9.0, 1.2e-17).endswith("p < 1e-10")
     assert "0.0000" not in figures_title(1.0, 0.5, 4.0, 3.2e-5)
+
+
+def test_a_season_below_the_level_reads_between_its_two_likeliest_roles(context, demo_analysis):
+    from drift.report.fmt import BETWEEN_BELOW, membership_between
+
+    assert membership_between(0.52, "slasher", 0.41, "spot-up wing") == "between slasher and spot-up wing (52% / 41%)"
+    assert membership_between(0.75, "slasher", 0.2, "spot-up wing") == "75%"
+    # on the demo's player pages: every placed season below the level reads "between", none above it
+    low = (demo_analysis.placements["role_prob"] < BETWEEN_BELOW).sum()
+    shown = [t["membership"] for p in context.players for t in p["timeline"] if t["placed"]]
+    between = [m for m in shown if m.startswith("between ")]
+    assert len(between) <= low and all("%" in m for m in shown)
+    assert (demo_analysis.placements["role_prob"] >= 1 / len(demo_analysis.model.role_ids_)).all()
+
+
+def test_features_of_near_zero_reliability_are_named_in_the_data_section(context, page, demo_analysis):
+    from drift.model.noise import low_signal_features
+
+    named = low_signal_features(demo_analysis.model.noise_)
+    assert named and [r["column"] for r in context.unreliable] == named  # the demo's columns keep drift's names
+    assert "Features with near-zero reliability" in page.body
