@@ -81,5 +81,9 @@ class DataQualityWarning(DriftWarning):
     """The input was accepted but something in it deserves a look."""
 
 
+class UnreliableFeatureWarning(DataQualityWarning):
+    """A feature's measured reliability is near zero: it was down-weighted to near zero."""
+
+
 class ModelQualityWarning(DriftWarning):
     """The model was fitted but one of its diagnostics is weak."""

@@ -116,11 +116,27 @@ def demo_prepared():
     return prepare(DEMO)
 
 
+#: the demo league's points-per-possession columns on few possessions are noise by construction
+#: (its players differ little in efficiency): every fit of it names the ones near zero in a warning.
+#: That one warning (about ppp_ columns only) is expected wherever the demo is fitted; the fixture
+#: below checks it is raised, tests/test_noise.py checks the rule, and any other warning still fails.
+DEMO_UNRELIABLE = r"ppp_roll_man \(signal share 0.0"
+
+
+def pytest_configure(config):
+    config.addinivalue_line(
+        "filterwarnings",
+        r"ignore:\d+ feature\(s\) carry almost no signal[^;]*zero. (ppp_\w+ \([^)]*\),? ?)+;"
+        ":drift.errors.UnreliableFeatureWarning")
+
+
 @pytest.fixture(scope="session")
 def demo_model(demo_prepared):
     from drift.api import fit_model
+    from drift.errors import UnreliableFeatureWarning
 
-    return fit_model(demo_prepared)
+    with pytest.warns(UnreliableFeatureWarning, match=DEMO_UNRELIABLE):
+        return fit_model(demo_prepared)
 
 
 #: the one comparison every shared demo run makes, so the in-process analysis and the CLI run

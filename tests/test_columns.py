@@ -88,3 +88,38 @@ def test_config_rules_are_validated():
 def test_normalise():
     assert normalise("PRBallHandler Freq") == "pr_ball_handler_freq"
     assert normalise(" ISO-PPP ") == "iso_ppp"
+
+
+#: spellings clubs and vendors use for play types (common practice, no source), each checked in the
+#: three measure forms: frequency (a share), points per possession (an efficiency), possessions (a sample)
+PLAY_SPELLINGS = [
+    ("roller", "roll_man"), ("pnr_roller", "roll_man"), ("PNR_Roller", "roll_man"), ("PRRoller", "roll_man"),
+    ("pr_roller", "roll_man"), ("PnrRollMan", "roll_man"), ("pick_and_roll_roller", "roll_man"),
+    ("screen_off", "off_screen"), ("Screen_Off", "off_screen"), ("offscreen", "off_screen"),
+    ("off_screen", "off_screen"), ("OffBallScreen", "off_screen"), ("coming_off_screens", "off_screen"),
+    ("hand_off", "handoff"), ("HandOff", "handoff"), ("hand_offs", "handoff"), ("DHO", "handoff"),
+    ("dribble_handoff", "handoff"), ("pnr_handler", "pnr_handler"), ("PR_Handler", "pnr_handler"),
+    ("pick_and_roll_handler", "pnr_handler"), ("isolations", "isolation"), ("post_play", "post_up"),
+    ("fast_breaks", "transition"), ("put_backs", "putback"),
+]
+
+
+@pytest.mark.parametrize("spelling, play", PLAY_SPELLINGS)
+@pytest.mark.parametrize("measure, family", [("freq", "share"), ("ppp", "efficiency"), ("poss", "possessions")])
+def test_play_type_spellings_in_every_measure_form(spelling, play, measure, family):
+    for name in (f"{spelling}_{measure}", f"{measure}_{spelling}", f"{spelling.upper()}_{measure.upper()}"):
+        r = _read([name])[name]
+        assert (r.family, r.play_type) == (family, play), name
+        if family == "share":
+            assert r.name == f"share_{play}"
+        elif family == "efficiency":
+            assert r.name == f"ppp_{play}"
+        else:
+            assert r.role == "sample"
+
+
+def test_wider_spellings_leave_rates_alone():
+    got = _read(["OREB_PCT", "off_reb_pct", "TOV_PCT", "USG_PCT", "roll_pct"])
+    assert got["OREB_PCT"].name == "orb_pct" and got["off_reb_pct"].name == "orb_pct"
+    assert got["TOV_PCT"].name == "tov_pct" and got["USG_PCT"].name == "usage_pct"
+    assert got["roll_pct"].name == "share_roll_man"  # 'pct' is one of the share spellings

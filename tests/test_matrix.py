@@ -45,11 +45,13 @@ def world(tmp_path_factory):
     table.to_csv(one_file, index=False)
     import warnings
 
-    from drift.errors import ModelQualityWarning
+    from drift.errors import ModelQualityWarning, UnreliableFeatureWarning
 
     with warnings.catch_warnings():
-        # random uniform features have no roles to reproduce: a weak role is expected here
+        # random uniform features have no roles to reproduce and no year-to-year agreement: a weak
+        # role and a feature of near-zero measured reliability are expected here
         warnings.simplefilter("ignore", ModelQualityWarning)
+        warnings.simplefilter("ignore", UnreliableFeatureWarning)
         model = fit_model(prepare(folder), Config(roles=3, components=2))
     path = root / "model.json"
     model.save(path)
@@ -406,6 +408,8 @@ PLACE_CASES = [
          r"not a drift model"),
     Case("place model other schema version", lambda w, t: _place(w, t, model=_model_with(
         w, t, _set(["schema_version"], 99))), r"schema_version 99"),
+    Case("place model of an older schema", lambda w, t: _place(w, t, model=_model_with(
+        w, t, _set(["schema_version"], 2))), r"schema_version 2 was written by an older drift.*refit"),
     Case("place model NaN literal", lambda w, t: _place(w, t, model=_nan_model(w, t)),
          r"'within_var'.*NaN|'within_var'.*finite"),
     Case("place model infinite weight", lambda w, t: _place(w, t, model=_model_with(

@@ -75,7 +75,7 @@ def test_json_round_trip_places_identically(demo_model, demo_prepared, tmp_path)
     path = tmp_path / "model.json"
     demo_model.save(path)
     data = json.loads(path.read_text())
-    assert data["schema_version"] == 2 and data["features"] == list(demo_model.features_)
+    assert data["schema_version"] == 3 and data["features"] == list(demo_model.features_)
     assert {"scaler_mean", "components", "roles", "noise", "reference_seasons", "fingerprint",
             "library_versions", "component_diagnostics", "role_diagnostics"} <= set(data)
     loaded = RoleModel.load(path)

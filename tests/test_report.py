@@ -431,3 +431,33 @@ def test_report_folder_is_deterministic(demo_analysis, tmp_path):
     for p in first.rglob("*"):
         if p.is_file():
             assert p.read_bytes() == (second / p.relative_to(first)).read_bytes(), p
+
+
+def test_a_season_below_the_level_reads_between_its_two_likeliest_roles(context, demo_analysis):
+    from drift.report._fmt import BETWEEN_BELOW, membership_between
+
+    assert membership_between(0.52, "slasher", 0.41, "spot-up wing") == "between slasher and spot-up wing (52% / 41%)"
+    assert membership_between(0.75, "slasher", 0.2, "spot-up wing") == "75%"
+    # on the demo's player pages: a season below the level reads "between" its two likeliest roles
+    from drift.report._players import _memberships
+
+    placements = demo_analysis.placements
+    texts = _memberships(placements, context_basis(demo_analysis))
+    low = (placements["role_prob"] < BETWEEN_BELOW).to_numpy()
+    assert all(t.startswith("between ") for t, is_low in zip(texts, low) if is_low)
+    assert not any(t.startswith("between ") for t, is_low in zip(texts, low) if not is_low)
+    assert (demo_analysis.placements["role_prob"] >= 1 / len(demo_analysis.model.role_ids_)).all()
+
+
+def test_features_of_near_zero_reliability_are_named_in_the_data_section(context, page, demo_analysis):
+    from drift.model.noise import low_signal_features
+
+    named = low_signal_features(demo_analysis.model.noise_)
+    assert named and [r["column"] for r in context.unreliable] == named  # the demo's columns keep drift's names
+    assert "Features with near-zero reliability" in page.body
+
+
+def context_basis(analysis):
+    from drift.report.context import basis
+
+    return basis(analysis)

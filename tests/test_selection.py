@@ -15,6 +15,9 @@ from drift.model.count_rules import (
     eigenvalues,
     elbow_count,
     gap_consensus,
+    gap_margins,
+    gap_tolerant,
+    reference_log_w,
     gap_pick,
     gap_statistic,
     parallel_analysis,
@@ -153,3 +156,43 @@ def test_fixed_roles_skip_the_search():
     z = _std(load_iris)
     choice = choose_roles(z, 4, n_boot=3, max_roles=14, seed=0, n_init=10)
     assert choice.k == 4 and list(choice.diagnostics["k"]) == [4]
+
+
+def test_gap_margins_are_the_one_se_rule_with_their_own_uncertainty():
+    # two counts, four reference sets: every figure by hand (Tibshirani et al. 2001, s = sd * sqrt(1 + 1/B))
+    ref = np.array([[5.0, 4.0], [5.2, 4.1], [4.8, 3.9], [5.0, 4.2]])
+    log_w = np.array([4.0, 2.5])
+    margin, se = gap_margins(log_w, ref)
+    gap = ref.mean(0) - log_w
+    s = ref.std(0) * np.sqrt(1 + 1 / 4)
+    assert margin[0] == pytest.approx(gap[0] - gap[1] + s[1])
+    paired = ref[:, 0] - ref[:, 1]
+    assert se[0] == pytest.approx(np.sqrt(paired.var(ddof=1) / 4 + s[1] ** 2 / 8))
+
+
+def test_tolerant_gap_rule_finds_blobs_on_every_seed_and_measures_knife_edges_again():
+    x, _ = make_blobs(400, n_features=5, centers=6, cluster_std=1.0, center_box=(-10, 10), random_state=3)
+    ks = list(range(1, 11))
+    picks = []
+    for seed in (0, 1, 2, 3):
+        log_w = [np.log(((x - x.mean(0)) ** 2).sum())] + [
+            np.log(KMeans(k, n_init=10, random_state=seed).fit(x).inertia_) for k in ks[1:]]
+        refs = np.vstack([reference_log_w(x, ks, n_refs=10, seed=s, n_init=1) for s in (seed, seed + 1, seed + 2)])
+        k, margin, se, refined = gap_tolerant(x, ks, log_w, refs, more_refs=(seed + 3, seed + 4, seed + 5))
+        picks.append(k)
+        # every decision not measured again was taken on a margin beyond three times its uncertainty
+        first = ks.index(k)
+        for i in range(first + 1):
+            assert ks[i] in refined or abs(margin[i]) > 3 * se[i]
+    assert picks == [6, 6, 6, 6]  # six well separated blobs, whatever the seed
+
+
+def test_a_margin_within_its_uncertainty_is_measured_again_and_then_stops():
+    # a uniform cloud: no k beats the reference clearly, so k = 1 is not decided on its first margin
+    x = np.random.default_rng(0).uniform(size=(300, 2))
+    ks = [1, 2, 3, 4]
+    log_w = [np.log(((x - x.mean(0)) ** 2).sum())] + [
+        np.log(KMeans(k, n_init=10, random_state=0).fit(x).inertia_) for k in ks[1:]]
+    refs = np.vstack([reference_log_w(x, ks, n_refs=10, seed=s, n_init=1) for s in (0, 1, 2)])
+    k, margin, se, refined = gap_tolerant(x, ks, log_w, refs, more_refs=(3, 4, 5))
+    assert k == 1 and (refined == [1] or margin[0] > 3 * se[0])

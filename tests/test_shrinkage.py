@@ -17,7 +17,7 @@ def test_equal_samples_give_the_james_stein_factor():
     v = y.mean() * (1 - y.mean()) / 45
     s = ((y - y.mean()) ** 2).sum()
     tau2 = s / (len(y) - 3) - v
-    noise = pd.DataFrame({"mean": [y.mean()], "sigma2": [v * 45], "tau2": [tau2]})
+    noise = pd.DataFrame({"mean": [y.mean()], "sigma2": [v * 45], "tau2": [tau2], "transient_var": [0.0]})
     out, state = process(y[:, None], np.full((len(y), 1), 45.0), np.full(len(y), 45.0), noise,
                          ("rate",), shrink=True)
     # source: Efron & Morris (1975), c = 1 - (k - 3) s2 / S, about 0.212 for these data
@@ -28,7 +28,7 @@ def test_equal_samples_give_the_james_stein_factor():
 
 
 def test_missing_values_land_on_the_mean_and_no_shrink_keeps_values():
-    noise = pd.DataFrame({"mean": [0.5], "sigma2": [1.0], "tau2": [0.01]})
+    noise = pd.DataFrame({"mean": [0.5], "sigma2": [1.0], "tau2": [0.01], "transient_var": [0.0]})
     y = np.array([[0.2], [np.nan], [0.9]])
     e = np.array([[100.0], [0.0], [1e9]])
     out, _ = process(y, e, np.ones(3), noise, ("rate",), shrink=True)

@@ -154,3 +154,38 @@ def test_default_rules_recover_small_leagues_of_the_family(tmp_path):
         assert abs(score["n_roles"] - n_roles) <= 1
         assert score["ari"] > 0.8 and score["f1"] > 0.85 and score["false_flag"] <= 0.01
     assert found.count(5) + found.count(9) >= 1
+
+
+def test_club_spellings_read_exactly_as_drifts_names_and_unlisted_codes_read_as_rates(tmp_path):
+    import warnings
+
+    from drift.api import prepare
+    from drift.config import Config
+    from drift.errors import DataQualityWarning
+
+    tables = {}
+    for naming in ("drift", "club", "unlisted"):
+        league = simulate_league(LeagueSpec(feature_naming=naming, seed=2, **SMALL))
+        league.write(tmp_path / naming)
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", DataQualityWarning)  # the unlisted codes are read by default
+            tables[naming] = prepare(tmp_path / naming, Config(columns=league.columns))
+    drift_names, club = tables["drift"], tables["club"]
+    assert sorted(club.features) == sorted(drift_names.features)
+    cols = ["player_id", "season", *sorted(drift_names.features)]
+    assert club.kept[cols].equals(drift_names.kept[cols])
+    unlisted = tables["unlisted"].reading.columns
+    codes = unlisted[unlisted["column"].str.startswith("PlayType")].drop_duplicates("column")
+    assert len(codes) == 4 and set(codes["family"]) == {"rate"}  # no spelling table knows them
+
+
+def test_rare_roles_and_their_defaults():
+    plain = simulate_league(LeagueSpec(n_roles=6, seed=8, n_teams=12, roster=15, n_seasons=4))
+    rare = simulate_league(LeagueSpec(n_roles=6, rare_roles=1, seed=8, n_teams=12, roster=15, n_seasons=4))
+    share = rare.truth["true_role"].value_counts(normalize=True)
+    before = plain.truth["true_role"].value_counts(normalize=True)
+    assert share.min() < 0.05 and before[share.idxmin()] > 2 * share.min()  # the rare role: about 3%
+    # the defaults draw the same league as a spec that never heard of the new fields
+    assert LeagueSpec(seed=8).rare_roles == 0 and LeagueSpec(seed=8).feature_naming == "drift"
+    with pytest.raises(ValueError, match="rare_roles"):
+        LeagueSpec(n_roles=4, rare_roles=4)

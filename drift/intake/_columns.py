@@ -36,18 +36,23 @@ __all__ = ["PLAY_TYPES", "MEASURES", "STANDARD_NAMES", "RATE_NAMES", "DESCRIPTOR
 
 #: play type -> its spellings (normalised, and with the underscores removed)
 PLAY_TYPES = {
-    "isolation": ("iso", "isolation", "isos"),
+    "isolation": ("iso", "isolation", "isos", "isolations"),
     "pnr_handler": ("pnr_handler", "prballhandler", "pr_ball_handler", "pnr_bh", "pr_bh", "prbh", "pnrbh",
-                    "ball_handler", "pick_and_roll_ball_handler", "pnr_ball_handler", "p_r_ball_handler"),
+                    "ball_handler", "pick_and_roll_ball_handler", "pnr_ball_handler", "p_r_ball_handler",
+                    "pr_handler", "pnr_ball", "pick_and_roll_handler", "pick_roll_handler", "pnr_ballhandler",
+                    "handler"),
     "roll_man": ("roll_man", "prrollman", "pr_roll_man", "pnr_roll", "pnr_rm", "pr_rm", "pnr_roll_man",
-                 "rollman", "roller", "pick_and_roll_roll_man"),
-    "post_up": ("post_up", "postup", "post", "post_ups"),
+                 "rollman", "roller", "pick_and_roll_roll_man", "pnr_roller", "pr_roller", "p_r_roller",
+                 "pnr_rollman", "pick_and_roll_roller", "pick_roll_roller", "roll", "rolls"),
+    "post_up": ("post_up", "postup", "post", "post_ups", "post_play", "post_plays"),
     "spot_up": ("spot_up", "spotup", "spot", "spot_ups", "catch_and_shoot_spot_up"),
-    "transition": ("transition", "trans", "fast_break"),
+    "transition": ("transition", "trans", "fast_break", "transitions", "fast_breaks"),
     "cut": ("cut", "cuts", "cutter", "cutting"),
-    "off_screen": ("off_screen", "offscreen", "off_screens"),
-    "handoff": ("handoff", "hand_off", "dho", "handoffs"),
-    "putback": ("putback", "putbacks", "put_back", "offrebound", "off_rebound", "oreb_putback"),
+    "off_screen": ("off_screen", "offscreen", "off_screens", "screen_off", "screens_off", "off_ball_screen",
+                   "off_ball_screens", "coming_off_screen", "coming_off_screens"),
+    "handoff": ("handoff", "hand_off", "dho", "handoffs", "hand_offs", "dribble_handoff", "dribble_hand_off",
+                "dhos"),
+    "putback": ("putback", "putbacks", "put_back", "put_backs", "offrebound", "off_rebound", "oreb_putback"),
     "misc": ("misc", "miscellaneous", "other"),
 }
 #: measure -> its spellings, as a suffix (``iso_freq``) or a prefix (``freq_iso``)

@@ -41,6 +41,7 @@ class FittingSteps:
         self.families_ = spec.families
         exposure = exposure_matrix(pool, spec)
         self.noise_ = fit_noise(pool, spec, exposure)
+        self._warn_unreliable()
         return self._process(pool[list(self.features_)].to_numpy(float), exposure, pool)
 
     def _fit_scaler(self, processed):
@@ -153,6 +154,23 @@ class FittingSteps:
         self.null_df_ = calibration.df
         self.calibration_sample_ = calibration.sample
         self.calibration_range_ = [calibration.low, calibration.high]
+
+    def _warn_unreliable(self):
+        """Name the features whose measured signal share is near zero (they are shrunk nearly flat)."""
+        import warnings
+
+        from drift.errors import UnreliableFeatureWarning
+        from drift.model.noise import LOW_SIGNAL_SHARE, low_signal_features
+
+        low = low_signal_features(self.noise_)
+        if low:
+            listed = ", ".join(f"{f} (signal share {self.noise_.loc[f, 'signal_share']:.2f}, year-to-year r "
+                               f"{self.noise_.loc[f, 'year_to_year_r']:.2f})" for f in low)
+            warnings.warn(f"{len(low)} feature(s) carry almost no signal that persists from season to season "
+                          f"(measured signal share below {LOW_SIGNAL_SHARE:g}) and were down-weighted to near "
+                          f"zero: {listed}; check each is the column its name says (give its sample with "
+                          "[intake.read]) or leave it out with [intake] exclude", UnreliableFeatureWarning,
+                          stacklevel=4)
 
     def _warn_unstable(self):
         import warnings

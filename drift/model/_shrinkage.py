@@ -14,7 +14,10 @@ __all__ = ["NoiseState", "process"]
 
 @dataclass(frozen=True)
 class NoiseState:
-    """Per-value sampling variance ``var``, shrinkage ``factor`` and share term ``u``, each (n, p).
+    """Per-value noise variance ``var``, shrinkage ``factor`` and share term ``u``, each (n, p).
+
+    ``var`` is the sampling noise at the value's sample plus the feature's measured
+    transient variance (the spread that does not persist year to year).
 
     ``u`` is non-zero for play-type shares only: their noise covariance is
     -u_a u_b off the diagonal (multinomial), so a share's rise is partly
@@ -44,7 +47,7 @@ def process(values, exposure, base, noise, families, *, shrink: bool):
     base : array of shape (n,)
         Each row's sample, used by the move calibration.
     noise : DataFrame indexed by feature
-        The pool's noise table: ``mean``, ``sigma2``, ``tau2``.
+        The pool's noise table: ``mean``, ``sigma2``, ``tau2``, ``transient_var``.
     families : sequence of str, length p
     shrink : bool
         Pull each value toward the pool mean by B = tau2 / (tau2 + v); when
@@ -57,11 +60,13 @@ def process(values, exposure, base, noise, families, *, shrink: bool):
     mean = noise["mean"].to_numpy(float)
     sigma2 = noise["sigma2"].to_numpy(float)
     tau2 = noise["tau2"].to_numpy(float)
+    transient = noise["transient_var"].to_numpy(float)
     has = np.isfinite(values) & (exposure > 0)
     level = np.column_stack([level_term(values[:, j], exposure[:, j], fam)
                              for j, fam in enumerate(families)])
     with np.errstate(divide="ignore", invalid="ignore"):
-        v = np.where(has, sigma2 * level / np.where(has, exposure, 1.0), 0.0)
+        # sampling noise at this sample plus the measured transient part (see drift.model.noise)
+        v = np.where(has, sigma2 * level / np.where(has, exposure, 1.0) + transient, 0.0)
         factor = np.where(has, tau2 / (tau2 + v), 0.0) if shrink else has.astype(float)
     factor = np.nan_to_num(factor, nan=1.0)
     y = np.where(has, values, mean)

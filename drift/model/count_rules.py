@@ -19,9 +19,12 @@ Roles (K-means on the pool's component scores), for k in 2..max_roles:
 * bootstrap stability: refit on resamples, match each resample's roles to the full fit's
   by the Hungarian algorithm, and take each role's mean Jaccard overlap.
 
-The default decision (``method="gap"``, chosen on the simulated-league family of
+The default decision (``method="gap"``, measured on the simulated-league family of
 :mod:`drift.sim.family` by ``benchmarks/role_count.py``): the gap statistic's
-one-standard-error rule, median over three sets of reference draws. Silhouette and
+one-standard-error rule on three seeds' reference draws pooled, where a margin within
+its own uncertainty (the standard error of the reference sets' paired differences) is
+not decided on: more reference draws re-measure it, and a margin still within noise
+stops (a further role must show a gain beyond noise). Silhouette and
 Calinski-Harabasz favour the coarse guards/wings/bigs split when roles blend, so they
 are reported, not used. A k whose least stable role is below 0.6 is marked
 (``stable`` false), a warning and not a veto. The former rule (``method="vote"``: stable
@@ -35,13 +38,16 @@ from dataclasses import dataclass
 __all__ = [
     "RoleChoice",
     "eigenvalues", "parallel_analysis", "elbow_count", "variance_count", "choose_components",
-    "gap_statistic", "gap_pick", "gap_consensus", "bootstrap_stability", "choose_roles",
+    "gap_statistic", "gap_pick", "gap_consensus", "reference_log_w", "gap_margins", "gap_tolerant",
+    "bootstrap_stability", "choose_roles",
     "STABLE_JACCARD", "ROLE_METHODS",
 ]
 
 from drift.constants import STABLE_JACCARD  # noqa: E402  (re-exported for callers)
+from drift.model._gap import (  # noqa: E402  (re-exported: the gap statistic lives in its own module)
+    _log_inertia, gap_consensus, gap_margins, gap_pick, gap_statistic, gap_tolerant, reference_log_w)
 
-ROLE_METHODS = ("gap", "gap_global", "gap_single", "vote", "silhouette", "calinski_harabasz")
+ROLE_METHODS = ("gap", "gap_median", "gap_global", "gap_single", "vote", "silhouette", "calinski_harabasz")
 
 
 def eigenvalues(z):
@@ -155,101 +161,6 @@ def _kmeans(x, k, *, seed, n_init):
     return KMeans(n_clusters=k, n_init=n_init, random_state=seed).fit(x)
 
 
-def _log_inertia(x, k, *, seed, n_init):
-    """log of the within-cluster sum of squares of a K-means fit (k = 1: the total)."""
-    import numpy as np
-
-    if k == 1:
-        return float(np.log(((x - x.mean(axis=0)) ** 2).sum()))
-    return float(np.log(_kmeans(x, k, seed=seed, n_init=n_init).inertia_))
-
-
-def gap_statistic(x, ks, *, n_refs: int = 10, seed: int = 0, n_init: int = 3, log_w=None):
-    """Gap(k) and s_k for each k, reference sets uniform over the data's bounding box.
-
-    Parameters
-    ----------
-    x : array of shape (n, q)
-        Data (component scores, so the box is aligned with the principal axes).
-    ks : sequence of int
-    n_refs : int
-        Reference sets.
-    seed : int
-        Seeds the reference sets and their K-means fits.
-    n_init : int
-        K-means restarts (for the data when ``log_w`` is not given, and the references).
-    log_w : sequence of float, optional
-        log W(k) of the data for each k, when the caller already fitted it.
-
-    Returns
-    -------
-    gap, s : arrays of shape (len(ks),)
-    """
-    import numpy as np
-
-    x = np.asarray(x, float)
-    rng = np.random.default_rng(seed)
-    lo, hi = x.min(axis=0), x.max(axis=0)
-    refs = [rng.uniform(lo, hi, size=x.shape) for _ in range(n_refs)]
-    if log_w is None:
-        log_w = [_log_inertia(x, k, seed=seed, n_init=n_init) for k in ks]
-    gap, s = [], []
-    for k, lw in zip(ks, log_w):
-        ref_log_w = np.array([_log_inertia(r, k, seed=seed, n_init=n_init) for r in refs])
-        gap.append(ref_log_w.mean() - lw)
-        s.append(ref_log_w.std() * np.sqrt(1 + 1 / n_refs))
-    return np.array(gap), np.array(s)
-
-
-def gap_pick(ks, gap, s, *, how: str = "first") -> int:
-    """The gap statistic's one-standard-error choice of k.
-
-    ``how="first"``: the smallest k with Gap(k) >= Gap(k+1) - s(k+1) (Tibshirani,
-    Walther & Hastie 2001); the largest k if none. ``how="global"``: the smallest
-    k with Gap(k) >= Gap(k*) - s(k*), k* the global maximum (the "globalSEmax"
-    variant of Dudoit & Fridlyand 2002); it is not stopped by an early plateau
-    of the curve, such as blobs on a grid.
-    """
-    import numpy as np
-
-    if how == "global":
-        best = int(np.argmax(gap))
-        return int(next(k for k, g in zip(ks, gap) if g >= gap[best] - s[best]))
-    for i in range(len(ks) - 1):
-        if gap[i] >= gap[i + 1] - s[i + 1]:
-            return int(ks[i])
-    return int(ks[-1])
-
-
-def gap_consensus(x, ks, log_w, *, n_refs: int = 10, seeds=(0, 1, 2), n_init: int = 1,
-                  how: str = "first", curves=None):
-    """The gap statistic's one-standard-error pick on several sets of reference draws.
-
-    The pick of one set of reference draws can move by one or two roles with the
-    seed in a league whose roles blend; the median over ``seeds`` is the
-    consensus (with three seeds it needs two of them to move).
-
-    Parameters
-    ----------
-    curves : list of (gap, s), optional
-        Curves already computed for these seeds (another ``how`` on the same draws).
-
-    Returns
-    -------
-    k : int
-        Median of the picks (the lower middle value for an even count).
-    picks : list of int
-        One pick per seed.
-    curves : list of (gap, s)
-        One curve per seed, each two arrays of shape (len(ks),).
-    """
-    if curves is None:
-        curves = [gap_statistic(x, ks, n_refs=n_refs, seed=sd, n_init=n_init, log_w=log_w)
-                  for sd in seeds]
-    picks = [gap_pick(ks, gap, s, how=how) for gap, s in curves]
-    return int(sorted(picks)[(len(picks) - 1) // 2]), picks, curves
-
-
 def bootstrap_stability(x, labels, centers, *, n_boot: int = 20, seed: int = 0, n_init: int = 3):
     """Mean Jaccard overlap of each role between the full fit and refits on resamples.
 
@@ -312,6 +223,35 @@ def _vote(diag, gap_k):
     return agreed[0] if agreed else int(np.median(votes))
 
 
+def _gap_columns(x, ks, data_log_w, diag, *, seed, n_init, n_refs, n_consensus):
+    """Gap curve, margins and the gap rules' picks; adds their columns to ``diag``.
+
+    ``data_log_w``: k -> log W(k) of the data's fits from each consensus seed.
+    Returns ({rule: k} for gap, gap_median and gap_global, the seeds' single picks).
+    """
+    import numpy as np
+
+    gap_ks = [1] + ks + [ks[-1] + 1]
+    seeds = range(seed, seed + n_consensus)
+    total = _log_inertia(x, 1, seed=seed, n_init=1)
+    by_seed = np.array([[total] + [data_log_w[k][i] for k in ks] + [_log_inertia(x, ks[-1] + 1, seed=sd, n_init=n_init)]
+                        for i, sd in enumerate(seeds)])
+    log_w = by_seed.min(axis=0)
+    median_k, gap_picks, curves = gap_consensus(x, gap_ks, log_w, n_refs=n_refs,
+                                                seeds=range(seed, seed + n_consensus))
+    global_k, _, _ = gap_consensus(x, gap_ks, log_w, how="global", curves=curves)
+    pooled = np.vstack([c[2] for c in curves])
+    tolerant_k, margin, margin_se, refined = gap_tolerant(
+        x, gap_ks, by_seed, pooled, more_refs=range(seed + n_consensus, seed + 2 * n_consensus), data_n_init=n_init)
+    diag["gap"] = (pooled.mean(axis=0) - np.asarray(log_w))[1:-1]
+    diag["gap_se"] = (pooled.std(axis=0) * np.sqrt(1 + 1 / len(pooled)))[1:-1]
+    diag["gap_margin"] = margin[1:]
+    diag["gap_margin_se"] = margin_se[1:]
+    diag["gap_refined"] = [k in refined for k in diag["k"]]
+    diag["gap_votes"] = [gap_picks.count(k) for k in diag["k"]]
+    return {"gap": tolerant_k, "gap_median": median_k, "gap_global": global_k}, gap_picks
+
+
 def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
                  n_boot: int = 20, n_refs: int = 10, sample_size: int = 3000,
                  method: str = "gap", n_consensus: int = 3) -> RoleChoice:
@@ -324,11 +264,13 @@ def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
     rule : "auto" or int
     max_roles : int
         Largest k tried.
-    method : {"gap", "vote", "silhouette", "calinski_harabasz"}
-        The rule deciding k under "auto". ``"gap"`` (default, chosen by measurement
-        in ``benchmarks/role_count.py``): the gap statistic's one-standard-error rule,
-        median over ``n_consensus`` sets of reference draws (seeds ``seed`` ..
-        ``seed + n_consensus - 1``). ``"vote"``: the former rule (stable k only,
+    method : {"gap", "gap_median", "gap_global", "gap_single", "vote", "silhouette", "calinski_harabasz"}
+        The rule deciding k under "auto". ``"gap"`` (default): the gap statistic's
+        one-standard-error rule on the reference sets of ``n_consensus`` seeds pooled
+        (``seed`` .. ``seed + n_consensus - 1``), never deciding on a margin within its
+        own uncertainty (:func:`gap_tolerant`; measured in ``benchmarks/role_count.py``).
+        ``"gap_median"``: the former default, the median of the seeds' separate picks.
+        ``"vote"``: the older rule (stable k only,
         two of silhouette, Calinski-Harabasz and gap agreeing). The others take
         the best k of one criterion. Every criterion and bootstrap stability is
         reported in ``diagnostics`` whatever decides; a role below the stability
@@ -347,9 +289,15 @@ def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
         ks = [rule]
     else:
         ks = list(range(2, int(min(max_roles, len(x) - 1)) + 1))
-    rows, stability, fits = [], {}, {}
+    rows, stability, fits, data_log_w = [], {}, {}, {}
+    # under "auto" each k's K-means runs from the consensus seeds' starts: the best optimum is the
+    # fit (so it hardly moves with --seed) and the spread of log W over seeds is part of the gap
+    # margin's uncertainty
+    fit_seeds = [seed] if isinstance(rule, int) else list(range(seed, seed + n_consensus))
     for k in ks:
-        km = fits[k] = _kmeans(x, k, seed=seed, n_init=n_init)
+        candidates = [_kmeans(x, k, seed=sd, n_init=n_init) for sd in fit_seeds]
+        data_log_w[k] = [float(np.log(max(c.inertia_, 1e-300))) for c in candidates]
+        km = fits[k] = min(candidates, key=lambda c: c.inertia_)
         labels = km.labels_
         row = {"k": k, "inertia": km.inertia_}
         if len(set(labels)) > 1:
@@ -367,18 +315,12 @@ def choose_roles(x, rule, *, max_roles: int, seed: int, n_init: int,
     if isinstance(rule, int):
         diag["chosen"] = True
         return RoleChoice(rule, diag, stability[rule], fits[rule], {})
-    gap_ks = [1] + ks + [ks[-1] + 1]
-    log_w = ([_log_inertia(x, 1, seed=seed, n_init=1)] + [float(np.log(fits[k].inertia_)) for k in ks]
-             + [_log_inertia(x, ks[-1] + 1, seed=seed, n_init=n_init)])
-    gap_k, gap_picks, curves = gap_consensus(x, gap_ks, log_w, n_refs=n_refs,
-                                             seeds=range(seed, seed + n_consensus))
-    global_k, _, _ = gap_consensus(x, gap_ks, log_w, how="global", curves=curves)
-    diag["gap"] = np.mean([g for g, _ in curves], axis=0)[1:-1]
-    diag["gap_se"] = np.mean([s for _, s in curves], axis=0)[1:-1]
-    diag["gap_votes"] = [gap_picks.count(k) for k in diag["k"]]
+    gap_k, gap_picks = _gap_columns(x, ks, data_log_w, diag, seed=seed, n_init=n_init, n_refs=n_refs,
+                                    n_consensus=n_consensus)
     inside = lambda v: int(min(max(v, ks[0]), ks[-1]))  # noqa: E731
     picks = {
-        "gap": inside(gap_k), "gap_global": inside(global_k), "gap_single": inside(gap_picks[0]),
+        **{name: inside(v) for name, v in gap_k.items()},
+        "gap_single": inside(gap_picks[0]),
         "silhouette": int(diag.loc[diag["silhouette"].idxmax(), "k"]),
         "calinski_harabasz": int(diag.loc[diag["calinski_harabasz"].idxmax(), "k"]),
     }

@@ -248,10 +248,8 @@ class RoleModel(FittingSteps, FileMethods, DisplayMethods):
 
     @fitted
     def predict(self, table):
-        """Nearest role id of every row, shape (n_rows,)."""
-        import numpy as np
-
-        return np.asarray(self.role_ids_)[self.distances(self.transform(table)).argmin(axis=1)]
+        """Role id of every row, shape (n_rows,): the role of highest membership (as ``place`` gives)."""
+        return self.place(table)["role"].to_numpy()
 
     @fitted
     def predict_proba(self, table):

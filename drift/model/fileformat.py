@@ -17,7 +17,10 @@ __all__ = ["SCHEMA", "SCHEMA_VERSION", "FIELDS", "ROLE_FIELDS", "NOISE_COLUMNS",
            "from_dict", "save", "load", "FileMethods"]
 
 SCHEMA = "drift-role-model"
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
+#: what older schema versions lacked, for the refusal message
+_OLDER = {2: "its features' reliability came from their names, not from the data",
+          1: "its features' reliability came from their names, not from the data"}
 
 #: field -> (kind, shape). Kinds: float (finite), int, str, and the nested kinds below.
 FIELDS = {
@@ -65,7 +68,7 @@ ROLE_FIELDS = {
 #: column of ``noise`` -> kind; every column has one value per feature
 NOISE_COLUMNS = {
     "feature": "str", "family": "str", "mean": "float", "sd": "float", "sigma2": "float",
-    "drift_var": "float", "tau2": "float", "year_to_year_r": "float_or_null",
+    "drift_var": "float", "tau2": "float", "transient_var": "float", "year_to_year_r": "float_or_null",
     "signal_share": "float", "median_sample": "float", "n_pairs": "int", "missing": "int",
 }
 
@@ -216,6 +219,11 @@ def validate(data, *, source="model") -> None:
     """Check ``data`` against :data:`FIELDS`; raise :class:`ModelFileError` with one line if not."""
     if not isinstance(data, dict) or data.get("schema") != SCHEMA:
         raise ModelFileError(f"{source}: not a drift model file (no 'schema': '{SCHEMA}')")
+    if data.get("schema_version") in _OLDER:
+        raise ModelFileError(
+            f"{source}: schema_version {data['schema_version']} was written by an older drift "
+            f"({_OLDER[data['schema_version']]}); this drift reads {SCHEMA_VERSION}: refit the model "
+            "with this version (drift run on the same seasons)")
     if data.get("schema_version") != SCHEMA_VERSION:
         raise ModelFileError(
             f"{source}: schema_version {data.get('schema_version')!r} is not supported "

@@ -15,17 +15,35 @@ true year-to-year change of a typical player. The line is fitted to robust
 role changes do not inflate it. With no returning players the cross-section is
 used instead: Var(y) = between_f + sigma2_f / e.
 
-Shrinkage pulls each value toward the pool mean by the factor
-B_i = tau2 / (tau2 + sigma2_f / e_if) with tau2 = S / (k - 3) - mean(sigma2_f / e),
-S the sum of squared deviations over the k pool values: with equal samples this
-is exactly the James-Stein factor of Efron & Morris (1975),
-1 - (k - 3) v / S. A missing value has e = 0 and lands on the mean.
+The name rule only supplies the sample e (possessions of a play type, minutes);
+how much of a feature is signal is *measured*: a value is persistent style +
+transient part + sampling noise, and the same players in consecutive seasons
+share only the persistent style. So, on the returning players' pairs,
+
+    transient_f = max(Var(y) - Cov(y1, y2) - mean(sigma2_f g / e), 0)
+
+is the spread that neither persists year to year nor shrinks with the sample
+(a column whose sample was misread, or a measure that is noise at any sample),
+and the persistent between-player variance is tau2_f = max(total_f - transient_f, 0),
+total_f = S / (k - 3) - mean(sigma2_f g / e) over the k pool values (S their sum
+of squared deviations). A value's noise is then v_i = sigma2_f g / e_i + transient_f,
+and shrinkage pulls it toward the pool mean by B_i = tau2 / (tau2 + v_i): with
+equal samples and no transient part this is exactly the James-Stein factor of
+Efron & Morris (1975), 1 - (k - 3) v / S. A feature whose year-to-year agreement
+is nil gets tau2 near 0, so it is shrunk flat and weighs nothing, whatever its
+name said. ``signal_share`` = tau2 / (tau2 + transient + sigma2 g / e) at the median
+sample. Without 20 returning pairs nothing can be measured: transient = 0 and
+the name rule's noise stands alone. A missing value has e = 0 and lands on the mean.
 """
 
 from __future__ import annotations
 
 __all__ = ["james_stein_factor", "shrinkage_factors", "fit_noise", "consecutive_pairs",
-           "level_term"]
+           "level_term", "transient_variance", "LOW_SIGNAL_SHARE", "low_signal_features"]
+
+#: a feature whose measured signal share at the median sample is below this is "near zero":
+#: it is shrunk nearly flat (so nearly weightless) and named in a warning
+LOW_SIGNAL_SHARE = 0.1
 
 _MAD_TO_SD = 1.4826
 
@@ -147,6 +165,22 @@ def _robust_line(x, d, *, n_bins=10):
     return float(a), float(b)
 
 
+def transient_variance(y1, y2, noise1, noise2) -> float:
+    """Spread of consecutive-season pairs that neither persists nor is sampling noise (>= 0).
+
+    Var(y) (each season about its mean) less the year-to-year covariance Cov(y1, y2) less the
+    mean modelled sampling variance ``noise1``, ``noise2`` of the values.
+    """
+    import numpy as np
+
+    if len(y1) < 2:
+        return 0.0
+    cov = float(np.mean((y1 - y1.mean()) * (y2 - y2.mean())))
+    sampling = float(np.mean(np.concatenate([noise1, noise2])))
+    # each season about its own mean: a league-wide trend between seasons is not a player's spread
+    return max((float(y1.var()) + float(y2.var())) / 2 - cov - sampling, 0.0)
+
+
 def fit_noise(table, spec, exposure):
     """Estimate each feature's noise, reliability and shrinkage constants on the pool.
 
@@ -161,11 +195,13 @@ def fit_noise(table, spec, exposure):
     Returns
     -------
     DataFrame indexed by feature with columns ``family``, ``mean``, ``sd``,
-    ``sigma2`` (noise variance x sample), ``drift_var`` (true yearly change),
-    ``tau2`` (between-player variance), ``year_to_year_r`` (correlation of
-    consecutive seasons of returning players; NaN with none),
-    ``signal_share`` (tau2 / (tau2 + sigma2 / median sample)), ``n_pairs``,
-    ``missing`` (values without a sample).
+    ``sigma2`` (noise variance x sample), ``drift_var`` (true yearly change beyond the
+    transient part), ``tau2`` (persistent between-player variance), ``transient_var``
+    (spread that neither persists nor shrinks with the sample; part of every value's
+    noise), ``year_to_year_r`` (correlation of consecutive seasons of returning
+    players; NaN with none), ``signal_share`` (tau2 / (tau2 + transient + sampling
+    noise at the median sample)), ``median_sample``, ``n_pairs``, ``missing``
+    (values without a sample).
     """
     import numpy as np
     import pandas as pd
@@ -183,25 +219,37 @@ def fit_noise(table, spec, exposure):
             mean_e = (e[i1] + e[i2]) / 2
             g = level_term((y[i1] + y[i2]) / 2, mean_e, fam)
             x = g * (1 / e[i1] + 1 / e[i2])
-            drift_var, sigma2 = _robust_line(x, y[i2] - y[i1])
+            line_var, sigma2 = _robust_line(x, y[i2] - y[i1])
             r = float(np.corrcoef(y[i1], y[i2])[0, 1]) if np.std(y[i1]) > 0 and np.std(y[i2]) > 0 else np.nan
+            transient = transient_variance(y[i1], y[i2], sigma2 * level_term(y[i1], e[i1], fam) / e[i1],
+                                           sigma2 * level_term(y[i2], e[i2], fam) / e[i2])
+            # the line's intercept is the whole season-to-season spread beyond sampling noise; the
+            # transient part of both seasons is in each value's noise, so only the rest is true change
+            drift_var = max(line_var - 2 * transient, 0.0)
         else:
             g = level_term(y[has], e[has], fam)
             between, sigma2 = (_robust_line(g / e[has], y[has] - np.median(y[has]))
                                if has.any() else (0.0, 0.0))
-            drift_var, r = 0.0, np.nan
+            drift_var, r, transient = 0.0, np.nan, 0.0
         v = np.where(has, sigma2 * level_term(y, e, fam) / np.where(has, e, 1.0), np.inf)
-        _, tau2 = shrinkage_factors(np.where(has, y, np.nan), v)
+        _, total = shrinkage_factors(np.where(has, y, np.nan), v)
+        tau2 = max(total - transient, 0.0)
         med_e = float(np.median(e[has])) if has.any() else 0.0
         med_g = float(np.median(level_term(y[has], e[has], fam))) if has.any() else 1.0
-        noise_at_median = sigma2 * med_g / med_e if med_e > 0 else np.inf
+        noise_at_median = (sigma2 * med_g / med_e if med_e > 0 else np.inf) + transient
         rows.append({
             "feature": name, "family": spec.families[j],
             "mean": float(np.nanmean(y[has])) if has.any() else 0.0,
             "sd": float(np.nanstd(y[has])) if has.any() else 0.0,
-            "sigma2": float(sigma2), "drift_var": float(drift_var), "tau2": tau2,
-            "year_to_year_r": r,
+            "sigma2": float(sigma2), "drift_var": float(drift_var), "tau2": float(tau2),
+            "transient_var": float(transient), "year_to_year_r": r,
             "signal_share": float(tau2 / (tau2 + noise_at_median)) if tau2 + noise_at_median > 0 else 0.0,
             "median_sample": med_e, "n_pairs": int(len(i1)), "missing": int((~np.isfinite(y)).sum()),
         })
     return pd.DataFrame(rows).set_index("feature")
+
+
+def low_signal_features(noise) -> list:
+    """Features whose measured signal share is below :data:`LOW_SIGNAL_SHARE` (measured = 20+ pairs)."""
+    measured = noise["n_pairs"] >= 20
+    return list(noise.index[measured & (noise["signal_share"] < LOW_SIGNAL_SHARE)])

@@ -92,7 +92,26 @@ def build_data(analysis, b) -> dict:
         for r in reading.summary().to_dict(orient="records")]
     missing = [{**r, "feature": label(r["feature"])} for r in missing.to_dict(orient="records")]
     return {"excluded_summary": excl, "missing": missing,
+            "unreliable": _unreliable(analysis.model, reading),
             "ignored_columns": list(prepared.ignored_columns), "columns_read": columns_read,
             "intake_notes": list(reading.notes) if reading is not None else [],
             "files": [str(f) for f in prepared.files], "out_of_reference": out_of_reference,
             "out_of_reference_total": int(len(oor))}
+
+
+def _unreliable(model, reading):
+    """The features the fit down-weighted for near-zero measured reliability, with their export names."""
+    from drift.model.describe import feature_label
+    from drift.model.noise import low_signal_features
+    from drift.report._fmt import percent, sig
+
+    noise = model.noise_
+    sources = {}
+    if reading is not None and len(reading.columns):
+        feats = reading.columns[reading.columns["role"] == "feature"]
+        for name, column in zip(feats["drift_name"], feats["column"]):
+            if column not in sources.setdefault(name, []):
+                sources[name].append(column)
+    return [{"label": feature_label(f), "column": ", ".join(sources.get(f, [f])),
+             "signal_share": percent(noise.loc[f, "signal_share"], 2), "r": sig(noise.loc[f, "year_to_year_r"], 2)}
+            for f in low_signal_features(noise)]

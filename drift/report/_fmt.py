@@ -8,7 +8,7 @@ from __future__ import annotations
 import math
 import re
 
-__all__ = ["sig", "percent", "membership", "strength", "feature_value", "slug", "figures_title", "filter_words", "p_text"]
+__all__ = ["sig", "percent", "membership", "membership_between", "BETWEEN_BELOW", "strength", "feature_value", "slug", "figures_title", "filter_words", "p_text"]
 
 
 def _missing(v) -> bool:
@@ -31,6 +31,17 @@ def percent(v, digits=2) -> str:
     if _missing(v):
         return ""
     return f"{sig(100 * float(v), digits)}%"
+
+
+#: below this membership a season reads "between <role> and <second role>", not as one role's number
+BETWEEN_BELOW = 0.6
+
+
+def membership_between(p, role_name, second_p, second_name) -> str:
+    """A season's membership: its number, or "between X and Y (p / q)" below :data:`BETWEEN_BELOW`."""
+    if _missing(p) or p >= BETWEEN_BELOW or _missing(second_p):
+        return membership(p)
+    return f"between {role_name} and {second_name} ({membership(p)} / {membership(second_p)})"
 
 
 def membership(p) -> str:

@@ -194,7 +194,7 @@ def build_player_pages(analysis, b, frame) -> dict:
                                                       [seasons[i] for i in last]))
     stint_words, left_out = _stint_words(analysis.stints), _left_out(analysis)
     teams, names, ids = pl["team"].astype(str).tolist(), pl["player"].astype(str).tolist(), pl["player_id"].tolist()
-    member, minutes = membership_texts(pl["role_prob"]), minutes_texts(pl["minutes"])
+    member, minutes = _memberships(pl, b), minutes_texts(pl["minutes"])
     games, outside = pl["games"].astype(int).tolist(), pl["out_of_reference"].astype(bool).tolist()
     xs, ys = frame.xy_many(pl["pc1"], pl["pc2"] if "pc2" in pl else np.zeros(len(pl)))
     roles = roles.tolist()
@@ -282,3 +282,20 @@ def build_index(analysis, b) -> dict:
     return {"player_index": index, "player_list_note": note, "players_total": n,
             "map_symbol": Markup(sketch.map_symbol(b.frame, cents, model.role_ids_, b.colours)),
             "pages_data": Markup(shared(b)), "data_dir": DATA_DIR, "ext": b.ext}
+
+
+def _memberships(pl, b) -> list:
+    """Each season's membership; below :data:`BETWEEN_BELOW` "between" its two likeliest roles, with both numbers."""
+    from drift.report._cells import membership_texts
+    from drift.report._fmt import BETWEEN_BELOW, membership_between
+
+    texts = membership_texts(pl["role_prob"])
+    if "second_role" not in pl:
+        return texts
+    low = (pl["role_prob"].to_numpy() < BETWEEN_BELOW).nonzero()[0]
+    for i in low.tolist():
+        role, second = pl["role"].iat[i], pl["second_role"].iat[i]
+        second_p = pl[f"prob_{second}"].iat[i] if f"prob_{second}" in pl else None
+        texts[i] = membership_between(pl["role_prob"].iat[i], b.names.get(role, role), second_p,
+                                      b.names.get(second, second))
+    return texts

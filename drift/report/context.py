@@ -249,6 +249,10 @@ class ReportContext:
         files (in how many it was read so), why (the rule used, or why it was left out).
     intake_notes : list of str
         Every unit conversion and intake warning, one line each.
+    unreliable : list of dict
+        Features whose measured signal share is near zero (below
+        :data:`drift.model.noise.LOW_SIGNAL_SHARE`), down-weighted to near zero: label,
+        column (as named in the export), signal_share, r (formatted).
     out_of_reference : list of dict
         The 25 seasons farthest outside every role (player, anchor, season, team, role (a role dict), distance).
     out_of_reference_total : int
@@ -304,6 +308,7 @@ class ReportContext:
     ignored_columns: list
     columns_read: list
     intake_notes: list
+    unreliable: list
     files: list
     out_of_reference: list
     out_of_reference_total: int

@@ -93,8 +93,13 @@ class SimPlayer:
         self.rates = self.rates * np.exp(rng.normal(0, 0.025, len(self.rates)))
         self.shoot = self.shoot + rng.normal(0, [0.006, 0.012, 0.012])
 
-    def change_role(self, rng):
+    def change_role(self, rng, weights=None, names=None):
+        """A real change of role: to any other role, or by ``weights`` (over ``names``) when given."""
         others = [r for r in self.profiles if r != self.role]
-        self.role = str(rng.choice(others))
+        if weights is None:
+            self.role = str(rng.choice(others))
+        else:
+            w = [weights[names.index(r)] for r in others]
+            self.role = str(rng.choice(others, p=[v / sum(w) for v in w]))
         self.blend_weight = 0.0
         self._restyle(rng)

@@ -34,12 +34,16 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from drift.sim._roles import PROFILES, SimPlayer, league_profiles, nearest_other
+from drift.sim._scoring import recovery, season_truth
 
 __all__ = ["PROFILES", "LeagueSpec", "SimLeague", "family", "simulate_league", "season_truth",
-           "recovery", "NAMINGS", "HELD_OUT_START"]
+           "recovery", "NAMINGS", "FEATURE_NAMINGS", "HELD_OUT_START", "STRESS_CASES", "stress_family",
+           "FRESH_START", "feature_columns"]
 
 #: first family index of the held-out leagues (never used to choose a default)
 HELD_OUT_START = 1000
+#: first index of the fresh held-out stress leagues of issue 17 (measured once, never used to choose)
+FRESH_START = 3000
 
 #: column naming variants: drift name -> export name ("standard" keeps drift's names)
 NAMINGS = {
@@ -49,6 +53,33 @@ NAMINGS = {
     "short": {"player_id": "pid", "player": "name", "team": "tm", "games": "g", "minutes": "mp",
               "possessions": "poss"},
 }
+
+
+#: how the export spells the feature columns. ``drift``: drift's own names; ``club``: the
+#: spellings a club export might use (``PNR_Roller_Freq``, ``Screen_Off_PPP``, ``USG_PCT``,
+#: ...), all in drift's spelling tables; ``unlisted``: the same, but two play types under
+#: vendor codes no table knows (``PlayType7``, ``PlayType8``), so their columns are read
+#: as plain rates with minutes as their sample and only the data can tell their reliability.
+_CLUB_PLAYS = {"isolation": "Isolation", "pnr_handler": "PR_Handler", "roll_man": "PNR_Roller",
+               "post_up": "PostUp", "spot_up": "SpotUp", "transition": "Transition", "cut": "Cut",
+               "off_screen": "Screen_Off", "handoff": "Hand_Off", "putback": "Putbacks"}
+_CLUB_RATES = {"usage_pct": "USG_PCT", "ast_pct": "AST_PCT", "orb_pct": "OREB_PCT", "drb_pct": "DREB_PCT",
+               "tov_pct": "TOV_PCT", "stl_pct": "STL_PCT", "blk_pct": "BLK_PCT", "ts_pct": "TS_PCT",
+               "three_pa_rate": "FG3A_RATE", "ft_rate": "FTA_RATE"}
+FEATURE_NAMINGS = {
+    "drift": {},
+    "club": {**{f"share_{k}": f"{v}_Freq" for k, v in _CLUB_PLAYS.items()},
+             **{f"ppp_{k}": f"{v}_PPP" for k, v in _CLUB_PLAYS.items()}, **_CLUB_RATES},
+    "unlisted": {**{f"share_{k}": f"{v}_Freq" for k, v in _CLUB_PLAYS.items()},
+                 **{f"ppp_{k}": f"{v}_PPP" for k, v in _CLUB_PLAYS.items()}, **_CLUB_RATES,
+                 "share_roll_man": "PlayType7_Freq", "ppp_roll_man": "PlayType7_PPP",
+                 "share_off_screen": "PlayType8_Freq", "ppp_off_screen": "PlayType8_PPP"},
+}
+
+
+def feature_columns(naming: str) -> dict:
+    """drift feature name -> the export's column name under a :data:`FEATURE_NAMINGS` key."""
+    return dict(FEATURE_NAMINGS[naming])
 
 
 @dataclass(frozen=True)
@@ -81,6 +112,12 @@ class LeagueSpec:
     spread : float
         Personal style around the role (1 = the demo league's; larger overlaps roles more).
     seed : int
+    rare_roles : int
+        Roles made rare: each drawn by ``rare_share`` of newcomers and of real role changes
+        (0 = the league's drawn mix, as before).
+    rare_share : float
+    feature_naming : str
+        A key of :data:`FEATURE_NAMINGS` (how the feature columns are spelled).
     """
 
     n_roles: int = 7
@@ -98,8 +135,16 @@ class LeagueSpec:
     profile_jitter: float = 0.12
     spread: float = 1.0
     seed: int = 0
+    rare_roles: int = 0
+    rare_share: float = 0.03
+    feature_naming: str = "drift"
 
     def __post_init__(self):
+        if not 0 <= self.rare_roles < self.n_roles or not 0 < self.rare_share * max(self.rare_roles, 1) < 0.5:
+            raise ValueError(f"rare_roles={self.rare_roles} x rare_share={self.rare_share} must leave most "
+                             "roles and most players common")
+        if self.feature_naming not in FEATURE_NAMINGS:
+            raise ValueError(f"feature_naming={self.feature_naming!r} is not one of {', '.join(FEATURE_NAMINGS)}")
         if not 2 <= self.n_roles <= len(PROFILES):
             raise ValueError(f"n_roles={self.n_roles} must be between 2 and {len(PROFILES)}")
         if not 0 <= self.blend < 0.5:
@@ -171,6 +216,42 @@ def family(n: int, *, start: int = 0) -> list:
     return specs
 
 
+#: the stress cases of :func:`stress_family`, in turn: case -> the spec fields it sets
+STRESS_CASES = {
+    "12 roles": {"n_roles": 12},
+    "rare roles": {"rare_roles": None},  # 1 or 2, drawn
+    "short rosters": {"roster": 7},
+    "12 seasons": {"n_seasons": 12},
+    "plain": {},
+}
+
+
+def stress_family(n: int, *, start: int = FRESH_START) -> list:
+    """Leagues of the family's kind that stress the role count, each with its case.
+
+    Index i draws a :func:`family`-like spec (its own generator), then applies the case
+    ``list(STRESS_CASES)[i % 5]``: twelve roles, one or two rare roles (3% of players),
+    rosters of seven, twelve seasons, or none; feature columns spelled ``drift`` or ``club``
+    in turn (``(i // 5) % 2``). Returns a list of (case, LeagueSpec).
+    """
+    import dataclasses
+
+    import numpy as np
+
+    out = []
+    for index in range(start, start + n):
+        base = family(1, start=index)[0]
+        case = list(STRESS_CASES)[index % len(STRESS_CASES)]
+        fields = dict(STRESS_CASES[case])
+        if "rare_roles" in fields:
+            rng = np.random.default_rng([7919, index, 17])
+            fields["rare_roles"] = int(rng.integers(1, 3))
+            fields["n_roles"] = max(base.n_roles, 5)
+        fields["feature_naming"] = ("drift", "club")[(index // len(STRESS_CASES)) % 2]
+        out.append((case, dataclasses.replace(base, **fields)))
+    return out
+
+
 class _LeagueDraw:
     """One league being drawn: its generator, roles, teams and seasons, and the rows so far.
 
@@ -188,6 +269,11 @@ class _LeagueDraw:
         self.partner = nearest_other(self.profiles)
         self.role_names = list(self.profiles)
         self.role_p = self.rng.dirichlet(np.full(len(self.role_names), 8.0))
+        if spec.rare_roles:  # the roles the mix made smallest become rare (no extra draws)
+            rare = np.argsort(self.role_p, kind="stable")[:spec.rare_roles]
+            common = np.setdiff1d(np.arange(len(self.role_p)), rare)
+            self.role_p[common] *= (1 - spec.rare_share * spec.rare_roles) / self.role_p[common].sum()
+            self.role_p[rare] = spec.rare_share
         self.teams = [code for code, _ in _TEAMS[:spec.n_teams]]
         self.seasons = [f"{2014 + i}-{(15 + i) % 100:02d}" for i in range(spec.n_seasons)]
         self.used, self.next_id = set(), 1
@@ -235,7 +321,8 @@ class _LeagueDraw:
                     p.age_one_season(rng)
                     moved = last_team[p.pid] != t
                     if rng.random() < spec.change_rate * (2 if moved else 1):
-                        p.change_role(rng)
+                        # with rare roles, a change lands by the league's mix (else they fill up)
+                        p.change_role(rng, self.role_p if spec.rare_roles else None, self.role_names)
                         p.changed = True
 
     def play_season(self, rosters, season, s_index) -> dict:
@@ -277,7 +364,7 @@ class _LeagueDraw:
         if not spec.possessions:
             frame = frame.drop(columns="possessions")
         naming = NAMINGS[spec.naming]
-        frame = frame.rename(columns=naming)
+        frame = frame.rename(columns={**naming, **FEATURE_NAMINGS[spec.feature_naming]})
         prof = pd.DataFrame([{"role": r, **{f"share_{t}": v for t, v in zip(PLAY_TYPES, s)},
                               **dict(zip(RATES, rt)), **dict(zip(SHOOTING, h))}
                              for r, (s, rt, h) in self.profiles.items()])
@@ -306,66 +393,3 @@ def simulate_league(spec: LeagueSpec | None = None) -> SimLeague:
             draw.offseason(rosters, last_team)
         last_team = draw.play_season(rosters, season, s_index)
     return draw.league()
-
-
-def season_truth(league: SimLeague):
-    """One truth row per player-season (stints combined; roles never change mid-season here).
-
-    Returns
-    -------
-    DataFrame: player_id, season, true_role, changed, blend_role, blend_weight
-    """
-    t = league.truth
-    return (t.sort_values(["player_id", "season", "stint"], kind="stable")
-            .drop_duplicates(["player_id", "season"])
-            [["player_id", "season", "true_role", "changed", "blend_role", "blend_weight"]]
-            .reset_index(drop=True))
-
-
-def recovery(placements, moves, truth) -> dict:
-    """How well a run recovered a simulated league's truth.
-
-    Parameters
-    ----------
-    placements : DataFrame
-        ``player_id``, ``season``, ``role`` (one row per player-season).
-    moves : DataFrame
-        Moves with ``kind``, ``player_id``, ``season_from``, ``season_to``,
-        ``role_changed``, ``p_value``; only ``kind == "consecutive"`` is scored.
-    truth : DataFrame
-        :func:`season_truth` (``player_id``, ``season``, ``true_role``).
-
-    Returns
-    -------
-    dict
-        ``n_roles`` (found), ``true_roles``, ``ari`` (adjusted Rand index of roles),
-        ``precision``, ``recall``, ``f1`` of ``role_changed`` against a real change of
-        true role (NaN when undefined, and all three NaN without any real change), ``n_changes``, ``n_pairs``, ``false_flag``
-        (share of pairs without a real change flagged as changed), and
-        ``beyond_<alpha>`` (share of no-change pairs with p < alpha, alpha 0.01, 0.05).
-    """
-    import numpy as np
-    from sklearn.metrics import adjusted_rand_score
-
-    t = truth[["player_id", "season", "true_role"]]
-    placed = placements[["player_id", "season", "role"]].merge(t, on=["player_id", "season"])
-    m = moves[moves["kind"] == "consecutive"]
-    m = m.merge(t.rename(columns={"season": "season_from", "true_role": "a"}), on=["player_id", "season_from"])
-    m = m.merge(t.rename(columns={"season": "season_to", "true_role": "b"}), on=["player_id", "season_to"])
-    real = (m["a"] != m["b"]).to_numpy()
-    flag = m["role_changed"].to_numpy(bool)
-    tp = int((real & flag).sum())
-    # no real change: nothing to find, so no precision/recall/F1 (false_flag says how clean it was)
-    precision = tp / flag.sum() if flag.sum() and real.any() else np.nan
-    recall = tp / real.sum() if real.sum() else np.nan
-    f1 = (2 * tp / (flag.sum() + real.sum())) if real.any() else np.nan
-    out = {
-        "n_roles": int(placed["role"].nunique()), "true_roles": int(t["true_role"].nunique()),
-        "ari": float(adjusted_rand_score(placed["true_role"], placed["role"])),
-        "precision": float(precision), "recall": float(recall), "f1": float(f1),
-        "n_changes": int(real.sum()), "n_pairs": int(len(m)),
-        "false_flag": float(flag[~real].mean()) if (~real).any() else np.nan,
-    }
-    for alpha in (0.01, 0.05):
-        out[f"beyond_{alpha:g}"] = float((m["p_value"].to_numpy()[~real] < alpha).mean()) if (~real).any() else np.nan
-    return out
